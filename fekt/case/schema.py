@@ -1,0 +1,161 @@
+"""The case description: frozen dataclasses holding evaluated numbers (no expressions left).
+
+A :class:`Case` is what :func:`fekt.case.loader.load_case` returns and what every later stage
+consumes. Lengths are in the case's length unit, forces in its force unit, angles in degrees.
+Variants are made with :func:`dataclasses.replace`.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+# --- units ------------------------------------------------------------------------------------
+
+#: stress unit for (length unit, force unit) pairs; anything else is reported as "force/length^2"
+STRESS_UNITS = {
+    ("mm", "N"): "MPa",
+    ("mm", "kN"): "GPa",
+    ("m", "N"): "Pa",
+    ("m", "kN"): "kPa",
+    ("m", "MN"): "MPa",
+    ("in", "lbf"): "psi",
+    ("in", "kip"): "ksi",
+    ("cm", "N"): "N/cm^2",
+}
+LENGTH_UNITS = ("mm", "cm", "m", "in")
+FORCE_UNITS = ("N", "kN", "MN", "lbf", "kip")
+
+
+@dataclass(frozen=True)
+class Units:
+    length: str = "mm"
+    force: str = "N"
+
+    @property
+    def stress(self) -> str:
+        return STRESS_UNITS.get((self.length, self.force), f"{self.force}/{self.length}^2")
+
+    @property
+    def moment(self) -> str:
+        return f"{self.force}*{self.length}"
+
+
+# --- geometry input -----------------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class Vertex:
+    """A corner of a closed chain.
+
+    ``fillet``: corner radius (0 = sharp). ``edge``: name of the edge that starts here and runs to
+    the next vertex. ``arc_radius``: if set, that edge is a circular arc of this radius, bulging
+    ``"out"`` of the region the chain encloses or ``"in"`` towards it.
+    """
+
+    x: float
+    y: float
+    fillet: float = 0.0
+    edge: str | None = None
+    arc_radius: float | None = None
+    bulge: str = "out"
+    label: str | None = None  # names the item that made this vertex (e.g. a notch), for messages
+
+
+@dataclass(frozen=True)
+class NotchSpec:
+    """A U- or V-notch cut into a straight outline edge.
+
+    ``position`` is the distance from the edge's start vertex to the notch centre line; ``depth`` is
+    measured normal to the edge to the bottom of the root; ``angle`` is the opening angle between
+    the flanks in degrees (0 = U-notch with parallel flanks).
+    """
+
+    name: str
+    edge: str
+    position: float
+    depth: float
+    root_radius: float
+    angle: float = 0.0
+
+
+@dataclass(frozen=True)
+class CutoutSpec:
+    """A hole cut out of the part.
+
+    ``shape`` is ``circle`` (``diameter``), ``ellipse`` (``a`` along ``angle``, ``b``), ``slot``
+    (obround: overall ``length`` along ``angle``, ``width``), ``rounded_rectangle`` (``length`` along
+    ``angle``, ``width``, corner ``radius``) or ``chain`` (``vertices``).
+    """
+
+    name: str
+    shape: str
+    center: tuple[float, float] = (0.0, 0.0)
+    diameter: float = 0.0
+    a: float = 0.0
+    b: float = 0.0
+    length: float = 0.0
+    width: float = 0.0
+    radius: float = 0.0
+    angle: float = 0.0
+    vertices: tuple[Vertex, ...] = ()
+
+
+@dataclass(frozen=True)
+class PartSpec:
+    outline: tuple[Vertex, ...]
+    cutouts: tuple[CutoutSpec, ...] = ()
+    notches: tuple[NotchSpec, ...] = ()
+    model: str = "plane_stress"  # or "plane_strain"
+    thickness: float = 1.0
+
+
+# --- material, load, mesh -----------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class Material:
+    """Isotropic linear elastic. Defaults are steel-like in MPa; in 2D Kt does not depend on them
+    (Michell's theorem, see the docs)."""
+
+    E: float = 210000.0
+    nu: float = 0.3
+
+
+@dataclass(frozen=True)
+class LoadSpec:
+    """Self-equilibrated end loads.
+
+    ``ends`` names two straight, parallel outline edges. The load axis is the outward normal of the
+    second end (pointing away from the first). ``force`` is the axial force (tension positive);
+    ``moment`` is the in-plane bending moment about each end's centroid, positive when it puts the
+    side at +90 degrees from the load axis in tension.
+    """
+
+    ends: tuple[str, str]
+    force: float = 0.0
+    moment: float = 0.0
+    stress: float | None = None  # if given, force = stress * area of the first end section
+
+
+@dataclass(frozen=True)
+class MeshSpec:
+    """Mesh controls. ``elements_per_radius``: element size at a notch feature is its radius divided
+    by this; ``size``: the largest element size (default: derived from the part); ``growth``: how fast
+    the size may grow with distance from a feature (size increase per unit distance)."""
+
+    elements_per_radius: float = 6.0
+    size: float | None = None
+    growth: float = 0.25
+    refine: int = 0  # uniform splits in gmsh after generation (nested refinement for studies)
+
+
+@dataclass(frozen=True)
+class Case:
+    name: str
+    part: PartSpec
+    load: LoadSpec
+    material: Material = field(default_factory=Material)
+    mesh: MeshSpec = field(default_factory=MeshSpec)
+    units: Units = field(default_factory=Units)
+    description: str = ""
+    parameters: tuple[tuple[str, float], ...] = ()
+    source: str = ""  # path of the case file, if any
+    demo: bool = False

@@ -1,0 +1,172 @@
+"""Exact cross-sections of a part normal to the load axis.
+
+A cut is the straight line {x : x . axis = s}. Its intersections with every boundary segment are
+computed in closed form (line, circle, ellipse), so section widths carry no discretisation error.
+Transverse coordinates are y' = x . e, with e = axis rotated +90 degrees.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+from scipy.optimize import minimize_scalar
+from shapely.geometry import Point, Polygon
+
+from .model import ARC, ELLIPSE, LINE, Feature, PartGeometry, Segment
+
+
+@dataclass(frozen=True)
+class Section:
+    """A cut through the part at axial position ``s``.
+
+    ``intervals``: material intervals in transverse coordinate y'; ``width`` is their total length;
+    ``area`` = width * thickness; ``yc`` the centroid's y'; ``inertia`` the second moment of area
+    about the centroid (bending in the plane); ``centroid`` the centroid's (x, y).
+    """
+
+    s: float
+    intervals: tuple[tuple[float, float], ...]
+    width: float
+    area: float
+    yc: float
+    inertia: float
+    centroid: tuple[float, float]
+    thickness: float
+
+
+def transverse(axis: np.ndarray) -> np.ndarray:
+    return np.array([-axis[1], axis[0]])
+
+
+def _hits(seg: Segment, axis: np.ndarray, s: float) -> list[float]:
+    """Parameters along the cut line (as y') where it meets the segment."""
+    e = transverse(axis)
+    if seg.kind == LINE:
+        p0, p1 = np.array(seg.start), np.array(seg.end)
+        a0, a1 = p0 @ axis - s, p1 @ axis - s
+        if a0 == a1:
+            return []  # parallel to the cut: its ends are hit by the neighbouring segments
+        t = a0 / (a0 - a1)
+        if -1e-12 <= t <= 1 + 1e-12:
+            return [float((p0 + t * (p1 - p0)) @ e)]
+        return []
+    c = np.array(seg.center)
+    if seg.kind == ARC:
+        dist = s - c @ axis
+        if abs(dist) > seg.radius:
+            return []
+        half = math.sqrt(max(seg.radius ** 2 - dist ** 2, 0.0))
+        out = []
+        for sign in (-1.0, 1.0):
+            p = c + dist * axis + sign * half * e
+            t = seg.parameter(p[:, None])[0]
+            if np.linalg.norm(seg.point(t)[:, 0] - p) <= 1e-9 * max(seg.radius, 1e-300):
+                out.append(float(p @ e))
+        return out
+    # ellipse: local frame u along a, v along b; point c + u*ua + v*va with (u/a)^2 + (v/b)^2 = 1
+    ua = np.array([math.cos(seg.angle), math.sin(seg.angle)])
+    va = np.array([-ua[1], ua[0]])
+    # points on the cut: c + dist*axis + w*e ; write in local frame
+    dist = s - c @ axis
+    base = dist * axis
+    bu, bv = base @ ua, base @ va
+    eu, ev = e @ ua, e @ va
+    A = (eu / seg.a) ** 2 + (ev / seg.b) ** 2
+    B = 2 * (bu * eu / seg.a ** 2 + bv * ev / seg.b ** 2)
+    C = (bu / seg.a) ** 2 + (bv / seg.b) ** 2 - 1
+    disc = B * B - 4 * A * C
+    if disc < 0:
+        return []
+    r = math.sqrt(disc)
+    ce = c @ e
+    return [float(ce + (-B - r) / (2 * A)), float(ce + (-B + r) / (2 * A))]
+
+
+def section_at(part: PartGeometry, axis: np.ndarray, s: float, thickness: float,
+               polygon: Polygon | None = None) -> Section:
+    """The cut of the part at axial position ``s``."""
+    e = transverse(axis)
+    ys: list[float] = []
+    for loop in part.loops:
+        for seg in loop.segments:
+            ys.extend(_hits(seg, axis, s))
+    ys = sorted(ys)
+    poly = polygon if polygon is not None else part_polygon(part)
+    scale = math.sqrt(poly.area)
+    merged: list[float] = []
+    for y in ys:  # merge duplicate hits at segment joints and tangent touches
+        if merged and abs(y - merged[-1]) <= 1e-10 * scale:
+            continue
+        merged.append(y)
+    intervals = []
+    for y0, y1 in zip(merged[:-1], merged[1:]):
+        mid = 0.5 * (y0 + y1)
+        pt = s * axis + mid * e
+        if poly.contains(Point(pt[0], pt[1])):
+            if intervals and abs(intervals[-1][1] - y0) <= 1e-10 * scale:
+                intervals[-1] = (intervals[-1][0], y1)
+            else:
+                intervals.append((y0, y1))
+    return section_from_intervals(s, intervals, axis, thickness)
+
+
+def section_from_intervals(s: float, intervals, axis: np.ndarray, thickness: float) -> Section:
+    iv = np.array(intervals, dtype=float).reshape(-1, 2)
+    e = transverse(axis)
+    lengths = iv[:, 1] - iv[:, 0]
+    width = float(lengths.sum())
+    if width <= 0:
+        return Section(s, (), 0.0, 0.0, 0.0, 0.0, (float("nan"), float("nan")), thickness)
+    yc = float(((iv[:, 1] ** 2 - iv[:, 0] ** 2) / 2).sum() / width)
+    inertia = float(thickness * ((iv[:, 1] - yc) ** 3 - (iv[:, 0] - yc) ** 3).sum() / 3)
+    c = s * axis + yc * e
+    return Section(s, tuple(map(tuple, iv.tolist())), width, width * thickness, yc, inertia,
+                   (float(c[0]), float(c[1])), thickness)
+
+
+def part_polygon(part: PartGeometry) -> Polygon:
+    shell = part.outline.polygon_points(math.radians(0.25)).T
+    holes = [loop.polygon_points(math.radians(0.25)).T for loop in part.loops[1:]]
+    return Polygon(shell, holes)
+
+
+def feature_extent(part: PartGeometry, feature: Feature, axis: np.ndarray) -> tuple[float, float]:
+    """Axial extent (min, max of x . axis) of a feature."""
+    if not feature.segments:
+        s = float(np.array(feature.point) @ axis)
+        return s, s
+    pts = np.hstack([part.segment(ref).sample(math.radians(0.5)) for ref in feature.segments])
+    a = axis @ pts
+    return float(a.min()), float(a.max())
+
+
+def net_section(part: PartGeometry, feature: Feature, axis: np.ndarray, thickness: float,
+                polygon: Polygon | None = None) -> Section:
+    """The shortest cut normal to the load axis through the feature.
+
+    For a hole this is the cut through its centre, for a shoulder fillet the smaller width, for a
+    U-notch the root (the rule is the same for every shape: minimise the material width).
+    """
+    poly = polygon if polygon is not None else part_polygon(part)
+    lo, hi = feature_extent(part, feature, axis)
+    if hi - lo <= 1e-12 * math.sqrt(poly.area):
+        return section_at(part, axis, lo, thickness, poly)
+    # stay strictly inside the extent: a cut exactly through an extreme point only grazes the feature
+    pad = 1e-9 * (hi - lo)
+    cands = np.linspace(lo + pad, hi - pad, 41)
+    cands = np.append(cands, np.clip(np.array(feature.point) @ axis, lo + pad, hi - pad))
+    widths = np.array([section_at(part, axis, float(c), thickness, poly).width for c in cands])
+    k = int(np.argmin(widths[:-1]))
+    best_s, best_w = float(cands[k]), float(widths[k])
+    if widths[-1] < best_w:
+        best_s, best_w = float(cands[-1]), float(widths[-1])
+    a, b = cands[max(k - 1, 0)], cands[min(k + 1, 40)]
+    if b > a:
+        res = minimize_scalar(lambda c: section_at(part, axis, float(c), thickness, poly).width,
+                              bounds=(float(a), float(b)), method="bounded",
+                              options={"xatol": 1e-10 * (hi - lo)})
+        if res.fun < best_w:
+            best_s = float(res.x)
+    return section_at(part, axis, best_s, thickness, poly)

@@ -1,0 +1,266 @@
+"""Mesh a part with gmsh: curved six-node triangles, graded to every notch feature.
+
+The geometry is built with OpenCASCADE without any boolean operation, so each gmsh curve maps to
+exactly one of our boundary segments (arcs are split into pieces of at most 90 degrees; all pieces
+map to the same segment). Boundary names are rebuilt from gmsh's line3 elements on each curve,
+because scikit-fem loses them for quadratic meshes (shared notes, library pitfalls A1-A2).
+"""
+
+from __future__ import annotations
+
+import math
+import time
+from dataclasses import dataclass, field
+
+import numpy as np
+from skfem import MeshTri2
+
+from ..case.schema import MeshSpec
+from ..errors import MeshError
+from ..geometry.model import ARC, ELLIPSE, LINE, PartGeometry
+from .session import gmsh_session
+
+
+@dataclass(frozen=True)
+class PartMesh:
+    """A quadratic mesh with every boundary facet tagged by the segment it lies on.
+
+    ``boundary_facets``: skfem facet indices; ``facet_loop`` / ``facet_segment``: the (loop, segment)
+    each lies on. ``feature_sizes`` maps feature name to the element size requested there.
+    """
+
+    mesh: MeshTri2
+    boundary_facets: np.ndarray
+    facet_loop: np.ndarray
+    facet_segment: np.ndarray
+    feature_sizes: dict[str, float]
+    size_max: float
+    n_elements: int
+    n_nodes: int
+    min_quality: float
+    area: float
+    seconds: float
+    gmsh_log: tuple[str, ...] = field(default=())
+
+    def facets_of(self, refs: list[tuple[int, int]]) -> np.ndarray:
+        """Boundary facets lying on any of the given (loop, segment) pairs."""
+        mask = np.zeros(self.boundary_facets.size, dtype=bool)
+        for li, si in refs:
+            mask |= (self.facet_loop == li) & (self.facet_segment == si)
+        return self.boundary_facets[mask]
+
+
+def default_size_max(part: PartGeometry) -> float:
+    """Largest element size when the case gives none: a sixth of the part's smaller overall dimension
+    (our own default, chosen with the benchmark in benchmarks/verification.py)."""
+    x0, y0, x1, y1 = part.bounding_box()
+    return min(x1 - x0, y1 - y0) / 6.0
+
+
+def feature_size(radius: float, spec: MeshSpec, size_max: float, smallest: float) -> float:
+    """Element size at a feature: its radius / elements_per_radius, never above size_max.
+    Sharp corners (radius 0) get the smallest size used anywhere else, or size_max / elements_per_radius."""
+    if radius > 0:
+        return min(radius / spec.elements_per_radius, size_max)
+    return min(smallest, size_max / spec.elements_per_radius)
+
+
+def mesh_part(part: PartGeometry, spec: MeshSpec) -> PartMesh:
+    """Mesh the part; see the module docstring."""
+    t0 = time.perf_counter()
+    size_max = spec.size if spec.size else default_size_max(part)
+    if size_max <= 0:
+        raise MeshError(f"mesh size = {size_max:.6g} must be positive")
+    radii = [f.radius for f in part.features if f.radius > 0]
+    smallest = min(radii) / spec.elements_per_radius if radii else size_max / spec.elements_per_radius
+    sizes = {f.name: feature_size(f.radius, spec, size_max, smallest) for f in part.features}
+
+    with gmsh_session() as gmsh:
+        gmsh.model.add("part")
+        occ = gmsh.model.occ
+        curve_ref: dict[int, tuple[int, int]] = {}
+        loop_tags = []
+        seg_curves: dict[tuple[int, int], list[int]] = {}
+        for li, loop in enumerate(part.loops):
+            point_tags: dict[tuple[float, float], int] = {}
+
+            def pt(xy) -> int:
+                key = (float(xy[0]), float(xy[1]))
+                if key not in point_tags:
+                    point_tags[key] = occ.addPoint(key[0], key[1], 0.0)
+                return point_tags[key]
+
+            curves = []
+            centres = []
+            for si, seg in enumerate(loop.segments):
+                tags = []
+                if seg.kind == LINE:
+                    tags.append(occ.addLine(pt(seg.start), pt(seg.end)))
+                elif seg.kind == ARC:
+                    n = max(1, math.ceil(abs(seg.sweep()) / (math.pi / 2) - 1e-9))
+                    ts = np.linspace(0.0, 1.0, n + 1)
+                    xy = seg.point(ts)
+                    xy[:, 0] = seg.start
+                    xy[:, -1] = seg.end
+                    c = occ.addPoint(seg.center[0], seg.center[1], 0.0)
+                    centres.append(c)
+                    for k in range(n):
+                        tags.append(occ.addCircleArc(pt(xy[:, k]), c, pt(xy[:, k + 1])))
+                elif seg.kind == ELLIPSE:
+                    a, b, ang = seg.a, seg.b, seg.angle
+                    if b > a:  # OCC needs the major radius first
+                        a, b, ang = b, a, ang + math.pi / 2
+                    tag = occ.addEllipse(seg.center[0], seg.center[1], 0.0, a, b,
+                                         xAxis=[math.cos(ang), math.sin(ang), 0.0])
+                    tags.append(tag)
+                for t in tags:
+                    curve_ref[t] = (li, si)
+                seg_curves[(li, si)] = tags
+                curves.extend(tags)
+            if centres:
+                occ.remove([(0, c) for c in centres])
+            loop_tags.append(occ.addCurveLoop(curves))
+        surf = occ.addPlaneSurface(loop_tags)
+        occ.synchronize()
+        gmsh.model.addPhysicalGroup(2, [surf], name="domain")
+        expected_area = part.area()
+        occ_area = occ.getMass(2, surf)
+        if abs(occ_area - expected_area) > 1e-6 * abs(expected_area):
+            raise MeshError(f"gmsh built a surface of area {occ_area:.9g}, the part has {expected_area:.9g}; "
+                            "the outline was not transferred faithfully")
+
+        # size fields: one Distance + Threshold per feature, combined with Min
+        fields = []
+        growth = spec.growth
+        for f in part.features:
+            h = sizes[f.name]
+            dist = gmsh.model.mesh.field.add("Distance")
+            if f.segments:
+                ctags = [t for ref in f.segments for t in seg_curves[ref]]
+                length = sum(part.segment(ref).length() for ref in f.segments)
+                gmsh.model.mesh.field.setNumbers(dist, "CurvesList", ctags)
+                # default Sampling (20 per curve) under-resolves long fine curves (pitfalls C2)
+                gmsh.model.mesh.field.setNumber(dist, "Sampling", int(min(max(20, 2 * length / h), 20000)))
+            else:
+                ptag = _find_point(gmsh, f.point)
+                gmsh.model.mesh.field.setNumbers(dist, "PointsList", [ptag])
+            thr = gmsh.model.mesh.field.add("Threshold")
+            gmsh.model.mesh.field.setNumber(thr, "InField", dist)
+            gmsh.model.mesh.field.setNumber(thr, "SizeMin", h)
+            gmsh.model.mesh.field.setNumber(thr, "SizeMax", size_max)
+            dmin = 0.25 * f.radius if f.radius > 0 else 0.0
+            gmsh.model.mesh.field.setNumber(thr, "DistMin", dmin)
+            gmsh.model.mesh.field.setNumber(thr, "DistMax", dmin + max(size_max - h, 0.0) / growth)
+            fields.append(thr)
+        if fields:
+            mn = gmsh.model.mesh.field.add("Min")
+            gmsh.model.mesh.field.setNumbers(mn, "FieldsList", fields)
+            gmsh.model.mesh.field.setAsBackgroundMesh(mn)
+        opt = gmsh.option.setNumber
+        # let the field govern (pitfalls C3); curvature keeps convex arcs round (16 per full turn)
+        opt("Mesh.MeshSizeExtendFromBoundary", 0)
+        opt("Mesh.MeshSizeFromPoints", 0)
+        opt("Mesh.MeshSizeFromCurvature", 16)
+        opt("Mesh.MeshSizeMax", size_max)
+        opt("Mesh.MeshSizeMin", 0.0)
+        opt("Mesh.Algorithm", 6)
+        opt("Mesh.SecondOrderLinear", 0)  # midside nodes on the CAD curves (pitfalls C4)
+        opt("Mesh.HighOrderOptimize", 0)
+        gmsh.model.mesh.generate(2)
+        for _ in range(spec.refine):
+            gmsh.model.mesh.refine()  # nested split; new boundary nodes snap to the curves (pitfalls F2)
+        gmsh.model.mesh.setOrder(2)
+        mesh, bfac, bloop, bseg, minq = _extract(gmsh, curve_ref)
+        log = tuple(gmsh.logger.get())
+
+    area = _mesh_area(mesh)
+    if abs(area - expected_area) > 1e-5 * abs(expected_area):
+        raise MeshError(f"mesh area {area:.9g} differs from the part's area {expected_area:.9g} by "
+                        f"{abs(area - expected_area) / abs(expected_area):.2%}")
+    return PartMesh(mesh=mesh, boundary_facets=bfac, facet_loop=bloop, facet_segment=bseg,
+                    feature_sizes=sizes, size_max=size_max, n_elements=mesh.t.shape[1],
+                    n_nodes=mesh.doflocs.shape[1], min_quality=minq, area=area,
+                    seconds=time.perf_counter() - t0, gmsh_log=log)
+
+
+def _find_point(gmsh, xy) -> int:
+    eps = 1e-6 * (1 + abs(xy[0]) + abs(xy[1]))
+    ents = gmsh.model.getEntitiesInBoundingBox(xy[0] - eps, xy[1] - eps, -1, xy[0] + eps, xy[1] + eps, 1, dim=0)
+    if not ents:
+        raise MeshError(f"no geometry point at the sharp corner ({xy[0]:.6g}, {xy[1]:.6g})")
+    return ents[0][1]
+
+
+def _extract(gmsh, curve_ref: dict[int, tuple[int, int]]):
+    """Read the quadratic mesh from the live gmsh model (pitfalls A2) and tag boundary facets."""
+    tri_type = gmsh.model.mesh.getElementType("Triangle", 2)
+    line_type = gmsh.model.mesh.getElementType("Line", 2)
+    etags, enodes = gmsh.model.mesh.getElementsByType(tri_type)
+    if len(etags) == 0:
+        raise MeshError("gmsh produced no triangles (is the outline self-intersecting?)")
+    node_tags, coords, _ = gmsh.model.mesh.getNodes()
+    xy = coords.reshape(-1, 3)[:, :2]
+    tri = enodes.reshape(-1, 6).astype(np.int64)
+    qual = gmsh.model.mesh.getElementQualities(etags, "minSJ")
+    minq = float(np.min(qual))
+    if minq <= 0:
+        raise MeshError(f"the mesh has inverted or degenerate elements (min scaled Jacobian {minq:.3g})")
+    # compact: keep only nodes used by triangles (drops free helper points, pitfalls A2)
+    lookup = np.full(int(node_tags.max()) + 1, -1, dtype=np.int64)
+    lookup[node_tags.astype(np.int64)] = np.arange(node_tags.size)
+    tri_idx = lookup[tri]
+    used = np.unique(tri_idx)
+    compact = np.full(node_tags.size, -1, dtype=np.int64)
+    compact[used] = np.arange(used.size)
+    t6 = compact[tri_idx].T  # (6, nel): corners then midsides 01, 12, 20 (same order as skfem)
+    p = xy[used].T
+    mesh = MeshTri2(np.ascontiguousarray(p), np.ascontiguousarray(t6))
+    # skfem renumbers corners as np.unique(t[:3]) -> arange (pitfalls A1)
+    corner_ids = np.unique(t6[:3])
+    facets = np.sort(mesh.facets, axis=0)
+    nv = np.int64(mesh.nvertices)
+    key_of_facet = facets[0].astype(np.int64) * nv + facets[1]
+    order = np.argsort(key_of_facet)
+    sorted_keys = key_of_facet[order]
+    fac_list, loop_list, seg_list = [], [], []
+    for ctag, (li, si) in curve_ref.items():
+        _, lnodes = gmsh.model.mesh.getElementsByType(line_type, ctag)
+        if len(lnodes) == 0:
+            raise MeshError(f"boundary curve {ctag} (loop {li}, segment {si}) has no elements")
+        ln = compact[lookup[lnodes.reshape(-1, 3)[:, :2].astype(np.int64)]]
+        if (ln < 0).any():
+            raise MeshError(f"boundary curve {ctag} has nodes that are not corners of any triangle")
+        v = np.searchsorted(corner_ids, ln)
+        if (corner_ids[np.minimum(v, corner_ids.size - 1)] != ln).any():
+            raise MeshError(f"boundary curve {ctag} has nodes that are not triangle corners")
+        v = np.sort(v, axis=1)
+        keys = v[:, 0] * nv + v[:, 1]
+        pos = np.searchsorted(sorted_keys, keys)
+        pos = np.minimum(pos, sorted_keys.size - 1)
+        if (sorted_keys[pos] != keys).any():
+            raise MeshError(f"boundary curve {ctag} has edges that are not mesh facets")
+        fac_list.append(order[pos])
+        loop_list.append(np.full(keys.size, li))
+        seg_list.append(np.full(keys.size, si))
+    bfac = np.concatenate(fac_list)
+    tagged = np.zeros(mesh.facets.shape[1], dtype=bool)
+    tagged[bfac] = True
+    missing = np.setdiff1d(mesh.boundary_facets(), bfac)
+    if missing.size:
+        raise MeshError(f"{missing.size} boundary facets are not on any boundary curve")
+    return mesh, bfac, np.concatenate(loop_list), np.concatenate(seg_list), minq
+
+
+def _mesh_area(mesh: MeshTri2) -> float:
+    from skfem import Basis, ElementTriP0, Functional
+
+    basis = Basis(mesh, ElementTriP0(), intorder=4)
+
+    @Functional
+    def one(w):
+        return 1.0 + 0 * w.x[0]
+
+    detj = basis.dx  # weights times |det J| at quadrature points
+    if (detj <= 0).any():
+        raise MeshError("the mesh has elements with non-positive Jacobian (inverted curved elements)")
+    return float(one.assemble(basis))
