@@ -92,7 +92,12 @@ def mesh_part(part: PartGeometry, spec: MeshSpec) -> PartMesh:
 
             curves = []
             centres = []
-            for si, seg in enumerate(loop.segments):
+            # OCC wants every wire counter-clockwise (a clockwise hole wire adds its area instead of
+            # removing it; checked on gmsh 4.15.2), so cut-outs are drawn in reverse
+            order = list(enumerate(loop.segments))
+            if loop.kind == "cutout":
+                order = [(si, seg.reversed()) for si, seg in reversed(order)]
+            for si, seg in order:
                 tags = []
                 if seg.kind == LINE:
                     tags.append(occ.addLine(pt(seg.start), pt(seg.end)))

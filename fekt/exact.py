@@ -1,0 +1,55 @@
+"""Exact plane-elasticity solutions used to verify fekt (tests and benchmarks).
+
+Kirsch (1898): circular hole of radius a in an infinite plate under remote uniaxial stress S along
+x. Cartesian form of the field as in shared/notes/verification-references.md 1.1 (derived there
+from the polar form in Sadd, Elasticity, Example 8-7), with q = a^2/r^2 and theta from the x-axis:
+
+    sxx = S [1 - q (3/2 cos2t + cos4t) + 3/2 q^2 cos4t]
+    syy = S [  - q (1/2 cos2t - cos4t) - 3/2 q^2 cos4t]
+    sxy = S [  - q (1/2 sin2t + sin4t) + 3/2 q^2 sin4t]
+
+Inglis (1913) / Kolosov: elliptical hole, semi-axes a (x) and b (y), remote S at angle alpha from x:
+edge hoop stress sigma/S = [1 - m^2 + 2m cos2a - 2cos2(eta - a)] / [1 - 2m cos2eta + m^2],
+m = (a-b)/(a+b); peak 1 + 2a/b for alpha = 90 degrees (references 1.3, derived there).
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+
+def kirsch_stress(x: np.ndarray, y: np.ndarray, a: float = 1.0, S: float = 1.0,
+                  x0: float = 0.0, y0: float = 0.0):
+    """(sxx, syy, sxy) of the Kirsch field for a hole of radius a centred at (x0, y0)."""
+    dx, dy = x - x0, y - y0
+    r2 = dx * dx + dy * dy
+    q = a * a / r2
+    th = np.arctan2(dy, dx)
+    c2, c4, s2, s4 = np.cos(2 * th), np.cos(4 * th), np.sin(2 * th), np.sin(4 * th)
+    sxx = S * (1 - q * (1.5 * c2 + c4) + 1.5 * q * q * c4)
+    syy = S * (-q * (0.5 * c2 - c4) - 1.5 * q * q * c4)
+    sxy = S * (-q * (0.5 * s2 + s4) + 1.5 * q * q * s4)
+    return sxx, syy, sxy
+
+
+def kirsch_traction(a: float = 1.0, S: float = 1.0, x0: float = 0.0, y0: float = 0.0):
+    """Traction function t(x, n) = sigma_exact . n for :class:`fekt.solve.elasticity.TractionLoad`."""
+
+    def traction(x, n):
+        sxx, syy, sxy = kirsch_stress(x[0], x[1], a, S, x0, y0)
+        return sxx * n[0] + sxy * n[1], sxy * n[0] + syy * n[1]
+
+    return traction
+
+
+def inglis_edge_stress(eta: np.ndarray, a: float, b: float, alpha_deg: float = 90.0, S: float = 1.0):
+    """Hoop stress on the edge of an elliptical hole at parametric angle eta (x = a cos, y = b sin)."""
+    m = (a - b) / (a + b)
+    al = np.radians(alpha_deg)
+    return S * (1 - m * m + 2 * m * np.cos(2 * al) - 2 * np.cos(2 * (eta - al))) / (
+        1 - 2 * m * np.cos(2 * eta) + m * m)
+
+
+def inglis_kt(a: float, b: float) -> float:
+    """Peak edge stress / S for load perpendicular to the a-axis: 1 + 2a/b."""
+    return 1.0 + 2.0 * a / b
