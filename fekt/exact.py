@@ -53,3 +53,13 @@ def inglis_edge_stress(eta: np.ndarray, a: float, b: float, alpha_deg: float = 9
 def inglis_kt(a: float, b: float) -> float:
     """Peak edge stress / S for load perpendicular to the a-axis: 1 + 2a/b."""
     return 1.0 + 2.0 * a / b
+
+
+def kirsch_displacement_radial(r, theta, a: float, S: float, E: float, nu: float, model: str):
+    """Radial displacement u_r of the Kirsch field (references 1.1, form as in Barber / Sadd, from
+    memory; strains verified against Hooke's law there). kappa = (3-nu)/(1+nu) plane stress,
+    3-4nu plane strain; mu = E/(2(1+nu))."""
+    mu = E / (2 * (1 + nu))
+    kappa = (3 - nu) / (1 + nu) if model == "plane_stress" else 3 - 4 * nu
+    return S / (8 * mu * r) * ((kappa - 1) * r ** 2 + 2 * a ** 2
+                               + 2 * (r ** 2 + (kappa + 1) * a ** 2 - a ** 4 / r ** 2) * np.cos(2 * theta))

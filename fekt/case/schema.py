@@ -141,7 +141,7 @@ class MeshSpec:
     by this; ``size``: the largest element size (default: derived from the part); ``growth``: how fast
     the size may grow with distance from a feature (size increase per unit distance)."""
 
-    elements_per_radius: float = 6.0
+    elements_per_radius: float = 16.0
     size: float | None = None
     growth: float = 0.25
     refine: int = 0  # uniform splits in gmsh after generation (nested refinement for studies)

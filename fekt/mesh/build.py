@@ -14,11 +14,30 @@ from dataclasses import dataclass, field
 
 import numpy as np
 from skfem import MeshTri2
+from skfem.mapping import MappingIsoparametric
 
 from ..case.schema import MeshSpec
 from ..errors import MeshError
 from ..geometry.model import ARC, ELLIPSE, LINE, PartGeometry
 from .session import gmsh_session
+
+
+class ScaledToleranceMapping(MappingIsoparametric):
+    """Isoparametric mapping whose inverse uses a looser Newton tolerance.
+
+    skfem's invF stops at an absolute step of 1e-12 in reference coordinates, summed over points; for
+    small elements far from the origin (0.03 wide at x = 160) round-off alone is about that big, and
+    FacetBasis then raised "Newton iteration didn't converge". 1e-10 in reference coordinates is far
+    below any effect on stresses (our own tolerance; measured failure on gmsh 4.15.2 / skfem 12.0.2).
+    """
+
+    def invF(self, x, tind=None, newton_max_iters=50, newton_tol=1e-10):
+        tol = newton_tol * max(1, x.shape[-1] if x.ndim == 3 else 1)
+        return super().invF(x, tind=tind, newton_max_iters=newton_max_iters, newton_tol=tol)
+
+
+def iso_mapping(mesh: MeshTri2) -> MappingIsoparametric:
+    return ScaledToleranceMapping(mesh, mesh.elem(), mesh.bndelem)
 
 
 @dataclass(frozen=True)
@@ -30,6 +49,7 @@ class PartMesh:
     """
 
     mesh: MeshTri2
+    mapping: MappingIsoparametric
     boundary_facets: np.ndarray
     facet_loop: np.ndarray
     facet_segment: np.ndarray
@@ -115,8 +135,11 @@ def mesh_part(part: PartGeometry, spec: MeshSpec) -> PartMesh:
                     a, b, ang = seg.a, seg.b, seg.angle
                     if b > a:  # OCC needs the major radius first
                         a, b, ang = b, a, ang + math.pi / 2
-                    tag = occ.addEllipse(seg.center[0], seg.center[1], 0.0, a, b,
-                                         xAxis=[math.cos(ang), math.sin(ang), 0.0])
+                    # build axis-aligned, then rotate: the xAxis argument of addEllipse did not
+                    # orient the ellipse here (gmsh 4.15.2; midside nodes landed on the unrotated curve)
+                    tag = occ.addEllipse(seg.center[0], seg.center[1], 0.0, a, b)
+                    if ang % (2 * math.pi):
+                        occ.rotate([(1, tag)], seg.center[0], seg.center[1], 0.0, 0.0, 0.0, 1.0, ang)
                     tags.append(tag)
                 for t in tags:
                     curve_ref[t] = (li, si)
@@ -178,11 +201,12 @@ def mesh_part(part: PartGeometry, spec: MeshSpec) -> PartMesh:
         mesh, bfac, bloop, bseg, minq = _extract(gmsh, curve_ref)
         log = tuple(gmsh.logger.get())
 
+    _check_on_curves(mesh, bfac, bloop, bseg, part)
     area = _mesh_area(mesh)
     if abs(area - expected_area) > 1e-5 * abs(expected_area):
         raise MeshError(f"mesh area {area:.9g} differs from the part's area {expected_area:.9g} by "
                         f"{abs(area - expected_area) / abs(expected_area):.2%}")
-    return PartMesh(mesh=mesh, boundary_facets=bfac, facet_loop=bloop, facet_segment=bseg,
+    return PartMesh(mesh=mesh, mapping=iso_mapping(mesh), boundary_facets=bfac, facet_loop=bloop, facet_segment=bseg,
                     feature_sizes=sizes, size_max=size_max, n_elements=mesh.t.shape[1],
                     n_nodes=mesh.doflocs.shape[1], min_quality=minq, area=area,
                     seconds=time.perf_counter() - t0, gmsh_log=log)
@@ -256,10 +280,26 @@ def _extract(gmsh, curve_ref: dict[int, tuple[int, int]]):
     return mesh, bfac, np.concatenate(loop_list), np.concatenate(seg_list), minq
 
 
+def _check_on_curves(mesh, bfac, bloop, bseg, part: PartGeometry) -> None:
+    """Every boundary node must lie on the segment it was tagged with (catches a curve that gmsh built
+    differently from our model, e.g. a mis-oriented ellipse)."""
+    x0, y0, x1, y1 = part.bounding_box()
+    tol = 1e-7 * max(x1 - x0, y1 - y0)
+    for li, loop in enumerate(part.loops):
+        for si, seg in enumerate(loop.segments):
+            f = bfac[(bloop == li) & (bseg == si)]
+            pts = np.hstack([mesh.doflocs[:, mesh.nvertices + f], mesh.p[:, mesh.facets[0, f]]])
+            back = seg.point(seg.parameter(pts))
+            err = float(np.max(np.linalg.norm(back - pts, axis=0))) if pts.size else 0.0
+            if err > tol:
+                raise MeshError(f"mesh nodes lie {err:.3g} off {loop.name} segment {si} ({seg.kind}); "
+                                "gmsh's curve differs from the geometry model")
+
+
 def _mesh_area(mesh: MeshTri2) -> float:
     from skfem import Basis, ElementTriP0, Functional
 
-    basis = Basis(mesh, ElementTriP0(), intorder=4)
+    basis = Basis(mesh, ElementTriP0(), intorder=4, mapping=iso_mapping(mesh))
 
     @Functional
     def one(w):

@@ -52,7 +52,8 @@ def principal(sxx, syy, sxy):
 
 def boundary_samples(sol: ElasticSolution, pmesh: PartMesh, part: PartGeometry) -> BoundarySamples:
     mesh = pmesh.mesh
-    fb = FacetBasis(mesh, sol.basis.elem, facets=pmesh.boundary_facets, intorder=BOUNDARY_INTORDER)
+    fb = FacetBasis(mesh, sol.basis.elem, facets=pmesh.boundary_facets, intorder=BOUNDARY_INTORDER,
+                     mapping=pmesh.mapping)
     grad = np.asarray(fb.interpolate(sol.u).grad)  # (2, 2, nf, nq)
     x = np.asarray(fb.global_coordinates())  # (2, nf, nq)
     n = np.asarray(fb.normals)  # outward unit normals
@@ -154,3 +155,15 @@ def probe_stress(sol: ElasticSolution, points: np.ndarray) -> tuple[np.ndarray, 
         g = np.asarray(basis.elem.gbasis(basis.mapping, X, k, tind=cells)[0].grad)[..., 0]
         grad += g * sol.u[basis.element_dofs[k, cells]]
     return stress_from_grad(grad, sol.lam, sol.mu)
+
+
+def probe_displacement(sol: ElasticSolution, points: np.ndarray) -> np.ndarray:
+    """Displacement (2, n) at interior points."""
+    basis = sol.basis
+    cells, ref = locate(basis.mesh, points)
+    X = ref[:, :, None]
+    u = np.zeros((2, points.shape[1]))
+    for k in range(basis.Nbfun):
+        v = np.asarray(basis.elem.gbasis(basis.mapping, X, k, tind=cells)[0])[..., 0]
+        u += v * sol.u[basis.element_dofs[k, cells]]
+    return u

@@ -115,7 +115,7 @@ def solve_elasticity(pmesh: PartMesh, E: float, nu: float, model: str,
     t0 = time.perf_counter()
     mesh = pmesh.mesh
     e = ElementVector(ElementTriP2())
-    basis = Basis(mesh, e, intorder=STIFFNESS_INTORDER)
+    basis = Basis(mesh, e, intorder=STIFFNESS_INTORDER, mapping=pmesh.mapping)
     lam, mu = lame(E, nu, model)
 
     @BilinearForm
@@ -126,7 +126,7 @@ def solve_elasticity(pmesh: PartMesh, E: float, nu: float, model: str,
     K = asm(stiffness, basis)
     f = np.zeros(basis.N)
     for load in loads:
-        fb = FacetBasis(mesh, e, facets=load.facets, intorder=TRACTION_INTORDER)
+        fb = FacetBasis(mesh, e, facets=load.facets, intorder=TRACTION_INTORDER, mapping=pmesh.mapping)
 
         @LinearForm
         def traction(v, w, _load=load):

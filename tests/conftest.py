@@ -1,0 +1,48 @@
+"""Shared builders for test cases (plain dataclasses; no case files needed)."""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+
+from fekt.case.schema import Case, CutoutSpec, LoadSpec, Material, MeshSpec, NotchSpec, PartSpec, Vertex
+from fekt.geometry.build import build_part
+from fekt.mesh.build import mesh_part
+from fekt.post.fields import boundary_samples
+from fekt.solve.elasticity import TractionLoad, solve_elasticity
+
+
+def rect_outline(L: float, W: float, x0: float = 0.0, y0: float = 0.0) -> tuple[Vertex, ...]:
+    return (Vertex(x0, y0, edge="bottom"), Vertex(x0 + L, y0, edge="right"),
+            Vertex(x0 + L, y0 + W, edge="top"), Vertex(x0, y0 + W, edge="left"))
+
+
+def strip_case(W=40.0, L=320.0, d=12.0, *, x0=0.0, y0=0.0, force=1000.0, moment=0.0, model="plane_stress",
+               nu=0.3, E=210000.0, mesh=None, thickness=5.0, notches=(), extra_cutouts=()) -> Case:
+    cut = (CutoutSpec("hole", "circle", (x0 + L / 2, y0 + W / 2), diameter=d),) if d else ()
+    return Case(name="strip", part=PartSpec(outline=rect_outline(L, W, x0, y0), cutouts=cut + tuple(extra_cutouts),
+                                            notches=tuple(notches), model=model, thickness=thickness),
+                load=LoadSpec(("left", "right"), force=force, moment=moment),
+                material=Material(E=E, nu=nu), mesh=mesh or MeshSpec())
+
+
+def kirsch_solution(elements_per_radius=None, refine=0, half_width=10.0, E=1.0, nu=0.3, model="plane_stress"):
+    """Square plate [-L, L]^2 with a unit-radius hole; the exact Kirsch traction (S = 1) on all four edges."""
+    from fekt.exact import kirsch_traction
+
+    L = half_width
+    spec = PartSpec(outline=rect_outline(2 * L, 2 * L, -L, -L),
+                    cutouts=(CutoutSpec("h", "circle", (0.0, 0.0), diameter=2.0),), model=model)
+    part = build_part(spec)
+    ms = MeshSpec(refine=refine) if elements_per_radius is None else MeshSpec(
+        elements_per_radius=elements_per_radius, refine=refine)
+    pm = mesh_part(part, ms)
+    outer = pm.facets_of([(0, i) for i in range(4)])
+    sol = solve_elasticity(pm, E, nu, model, [TractionLoad(outer, kirsch_traction())])
+    b = boundary_samples(sol, pm, part)
+    return part, pm, sol, b
+
+
+@pytest.fixture(scope="session")
+def kirsch_default():
+    return kirsch_solution()
