@@ -338,8 +338,9 @@ def build_part(spec: PartSpec) -> PartGeometry:
     verts = list(spec.outline)
     if len(verts) < 3:
         raise GeometryError(f"the outline needs at least 3 vertices, got {len(verts)}", item="part.outline")
-    if abs(_chain_area(verts)) <= 1e-14 * (1 + max(abs(v.x) + abs(v.y) for v in verts)) ** 2:
-        raise GeometryError("the outline encloses no area (all vertices on a line?)", item="part.outline")
+    P = np.array([[v.x, v.y] for v in verts])
+    if np.linalg.matrix_rank(P[1:] - P[0], tol=1e-12 * (1 + np.abs(P).max())) < 2:
+        raise GeometryError("the outline encloses no area (all vertices lie on one line)", item="part.outline")
     verts = _ccw_chain(tuple(verts), "part.outline")
     verts = insert_notches(verts, spec.notches)
     outline = Loop(tuple(chain_segments(verts, item="part.outline", origin="outline")), "outline", "outline")
