@@ -14,9 +14,10 @@ from __future__ import annotations
 import difflib
 import math
 import tomllib
-from collections.abc import Mapping, Sequence
+from collections.abc import Callable, Mapping, Sequence
 from dataclasses import replace
 from pathlib import Path
+from typing import TypeVar
 
 from fekt.case.expr import evaluate, resolve_parameters
 from fekt.case.schema import (
@@ -35,6 +36,8 @@ from fekt.case.schema import (
 from fekt.errors import CaseError
 
 __all__ = ["MODELS", "SHAPES", "case_from_dict", "load_case", "parse_case"]
+
+_T = TypeVar("_T")
 
 MODELS = ("plane_stress", "plane_strain")
 BULGES = ("out", "in")
@@ -103,21 +106,17 @@ def case_from_dict(data: dict, source: str) -> Case:
     """Check an already parsed case table (as :func:`tomllib.loads` returns it) and build the Case."""
     root = _table(data, source or "<case>")
     _check_keys(root, _TOP_KEYS, "")
-    params = resolve_parameters(root.get("parameters", {}), item_prefix="parameters")
+    # Sections are read in the order they usually appear in a file, so the first error reported
+    # is the first one the reader meets.
     name, description, demo = _case_info(root.get("case", {}), source)
+    units = _units(root.get("units", {}))
+    params = resolve_parameters(root.get("parameters", {}), item_prefix="parameters")
     part = _part(_required(root, "part", ""), params)
-    return Case(
-        name=name,
-        part=part,
-        load=_load(_required(root, "load", ""), params, _edge_names(part.outline)),
-        material=_material(root.get("material", {}), params),
-        mesh=_mesh(root.get("mesh", {}), params),
-        units=_units(root.get("units", {})),
-        description=description,
-        parameters=tuple(params.items()),
-        source=source,
-        demo=demo,
-    )
+    material = _material(root.get("material", {}), params)
+    load = _load(_required(root, "load", ""), params, _edge_names(part.outline))
+    mesh = _mesh(root.get("mesh", {}), params)
+    return Case(name=name, part=part, load=load, material=material, mesh=mesh, units=units,
+                description=description, parameters=tuple(params.items()), source=source, demo=demo)
 
 
 # --- generic checks --------------------------------------------------------------------------------
@@ -214,16 +213,15 @@ def _number(value: object, params: Mapping[str, float], item: str) -> float:
     return evaluate(value, params, item=item)
 
 
-def _positive(value: float, item: str) -> float:
-    if not value > 0:
-        raise CaseError(f"value {value:.6g} must be positive", item=item)
-    return value
-
-
-def _non_negative(value: float, item: str) -> float:
-    if value < 0:
-        raise CaseError(f"value {value:.6g} must be zero or positive", item=item)
-    return value
+def _positive(raw: object, params: Mapping[str, float], item: str, *, zero_ok: bool = False) -> float:
+    """Evaluate a value that only makes sense positive (or zero, with ``zero_ok``)."""
+    value = _number(raw, params, item)
+    if value > 0 or (zero_ok and value == 0):
+        return value
+    rule = "zero or positive" if zero_ok else "positive"
+    # Quote the expression too: the user wrote it, not the number it came to.
+    shown = f"{raw.strip()!r} evaluates to {value:.6g}, which" if isinstance(raw, str) else f"value {value:.6g}"
+    raise CaseError(f"{shown} must be {rule}", item=item)
 
 
 def _optional(table: Mapping[str, object], key: str, default: float, params: Mapping[str, float],
@@ -275,7 +273,7 @@ def _part(raw: object, params: Mapping[str, float]) -> PartSpec:
     _check_keys(table, _PART_KEYS, "part")
     model = _choice(table.get("model", "plane_stress"), MODELS, "part.model")
     if "thickness" in table:
-        thickness = _positive(_number(table["thickness"], params, "part.thickness"), "part.thickness")
+        thickness = _positive(table["thickness"], params, "part.thickness")
     elif model == "plane_stress":
         raise CaseError("missing required value 'thickness' in [part]", item="part.thickness",
                         hint="a plane-stress part needs its thickness to turn forces into stresses")
@@ -290,7 +288,8 @@ def _part(raw: object, params: Mapping[str, float]) -> PartSpec:
     return PartSpec(outline=outline, cutouts=cutouts, notches=notches, model=model, thickness=thickness)
 
 
-def _items(table: Mapping[str, object], key: str, params: Mapping[str, float], read) -> tuple:
+def _items(table: Mapping[str, object], key: str, params: Mapping[str, float],
+           read: Callable[[object, str, int, Mapping[str, float]], _T]) -> tuple[_T, ...]:
     item = f"part.{key}"
     entries = _array(table.get(key, []), item)
     return tuple(read(entry, f"{item}[{k}]", k, params) for k, entry in enumerate(entries))
@@ -316,7 +315,7 @@ def _vertex(raw: object, item: str, params: Mapping[str, float], keys: Sequence[
     _check_keys(table, keys, item)
     x = _number(_required(table, "x", item), params, _path(item, "x"))
     y = _number(_required(table, "y", item), params, _path(item, "y"))
-    fillet = _non_negative(_optional(table, "fillet", 0.0, params, item), _path(item, "fillet"))
+    fillet = _positive(table.get("fillet", 0.0), params, _path(item, "fillet"), zero_ok=True)
     edge = _name(table["edge"], _path(item, "edge")) if "edge" in table else None
     arc_radius, bulge = _arc(table["arc"], _path(item, "arc"), params) if "arc" in table else (None, "out")
     return Vertex(x=x, y=y, fillet=fillet, edge=edge, arc_radius=arc_radius, bulge=bulge)
@@ -325,8 +324,7 @@ def _vertex(raw: object, item: str, params: Mapping[str, float], keys: Sequence[
 def _arc(raw: object, item: str, params: Mapping[str, float]) -> tuple[float, str]:
     table = _table(raw, item)
     _check_keys(table, _ARC_KEYS, item)
-    radius = _positive(_number(_required(table, "radius", item), params, _path(item, "radius")),
-                       _path(item, "radius"))
+    radius = _positive(_required(table, "radius", item), params, _path(item, "radius"))
     bulge = _choice(table.get("bulge", "out"), BULGES, _path(item, "bulge"))
     return radius, bulge
 
@@ -356,7 +354,7 @@ def _size(table: Mapping[str, object], key: str, params: Mapping[str, float], it
     """A cut-out dimension: positive when given, 0 (meaning "not used by this shape") when absent."""
     if key not in table:
         return 0.0
-    return _positive(_number(table[key], params, _path(item, key)), _path(item, key))
+    return _positive(table[key], params, _path(item, key))
 
 
 def _cutout(raw: object, item: str, k: int, params: Mapping[str, float]) -> CutoutSpec:
@@ -393,10 +391,9 @@ def _notch(raw: object, item: str, k: int, params: Mapping[str, float]) -> Notch
     return NotchSpec(
         name=_name(table["name"], _path(item, "name")) if "name" in table else f"notch {k + 1}",
         edge=_name(table["edge"], _path(item, "edge")),
-        position=_positive(_number(table["position"], params, _path(item, "position")), _path(item, "position")),
-        depth=_positive(_number(table["depth"], params, _path(item, "depth")), _path(item, "depth")),
-        root_radius=_non_negative(_number(table["root_radius"], params, _path(item, "root_radius")),
-                                  _path(item, "root_radius")),
+        position=_positive(table["position"], params, _path(item, "position")),
+        depth=_positive(table["depth"], params, _path(item, "depth")),
+        root_radius=_positive(table["root_radius"], params, _path(item, "root_radius"), zero_ok=True),
         angle=_optional(table, "angle", 0.0, params, item),
     )
 
@@ -453,7 +450,7 @@ def _material(raw: object, params: Mapping[str, float]) -> Material:
     table = _table(raw, "material")
     _check_keys(table, _MATERIAL_KEYS, "material")
     default = Material()
-    E = _positive(_optional(table, "E", default.E, params, "material"), "material.E")
+    E = _positive(table.get("E", default.E), params, "material.E")
     nu = _optional(table, "nu", default.nu, params, "material")
     # The isotropic elastic energy is positive definite only for -1 < nu < 0.5.
     if not -1.0 < nu < 0.5:
@@ -501,8 +498,8 @@ def _mesh(raw: object, params: Mapping[str, float]) -> MeshSpec:
     table = _table(raw, "mesh")
     _check_keys(table, _MESH_KEYS, "mesh")
     default = MeshSpec()
-    per_radius = _positive(_optional(table, "elements_per_radius", default.elements_per_radius, params, "mesh"),
+    per_radius = _positive(table.get("elements_per_radius", default.elements_per_radius), params,
                            "mesh.elements_per_radius")
-    size = _positive(_number(table["size"], params, "mesh.size"), "mesh.size") if "size" in table else None
-    growth = _positive(_optional(table, "growth", default.growth, params, "mesh"), "mesh.growth")
+    size = _positive(table["size"], params, "mesh.size") if "size" in table else None
+    growth = _positive(table.get("growth", default.growth), params, "mesh.growth")
     return MeshSpec(elements_per_radius=per_radius, size=size, growth=growth)

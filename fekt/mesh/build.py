@@ -13,7 +13,7 @@ import time
 from dataclasses import dataclass, field
 
 import numpy as np
-from skfem import MeshTri2
+from skfem import MeshTri1, MeshTri2
 from skfem.mapping import MappingIsoparametric
 
 from ..case.schema import MeshSpec
@@ -36,8 +36,10 @@ class ScaledToleranceMapping(MappingIsoparametric):
         return super().invF(x, tind=tind, newton_max_iters=newton_max_iters, newton_tol=tol)
 
 
-def iso_mapping(mesh: MeshTri2) -> MappingIsoparametric:
-    return ScaledToleranceMapping(mesh, mesh.elem(), mesh.bndelem)
+def iso_mapping(mesh):
+    if isinstance(mesh, MeshTri2):
+        return ScaledToleranceMapping(mesh, mesh.elem(), mesh.bndelem)
+    return mesh._mapping()  # straight triangles: skfem's affine mapping
 
 
 @dataclass(frozen=True)
@@ -48,8 +50,8 @@ class PartMesh:
     each lies on. ``feature_sizes`` maps feature name to the element size requested there.
     """
 
-    mesh: MeshTri2
-    mapping: MappingIsoparametric
+    mesh: MeshTri2 | MeshTri1
+    mapping: object
     boundary_facets: np.ndarray
     facet_loop: np.ndarray
     facet_segment: np.ndarray
@@ -85,8 +87,11 @@ def feature_size(radius: float, spec: MeshSpec, size_max: float, smallest: float
     return min(smallest, size_max / spec.elements_per_radius)
 
 
-def mesh_part(part: PartGeometry, spec: MeshSpec) -> PartMesh:
-    """Mesh the part; see the module docstring."""
+def mesh_part(part: PartGeometry, spec: MeshSpec, *, order: int = 2, uniform: bool = False) -> PartMesh:
+    """Mesh the part; see the module docstring.
+
+    ``order=1, uniform=True`` gives the naive baseline of the benchmark: straight three-node
+    triangles of one size everywhere (no notch refinement)."""
     t0 = time.perf_counter()
     size_max = spec.size if spec.size else default_size_max(part)
     if size_max <= 0:
@@ -114,10 +119,10 @@ def mesh_part(part: PartGeometry, spec: MeshSpec) -> PartMesh:
             centres = []
             # OCC wants every wire counter-clockwise (a clockwise hole wire adds its area instead of
             # removing it; checked on gmsh 4.15.2), so cut-outs are drawn in reverse
-            order = list(enumerate(loop.segments))
+            seq = list(enumerate(loop.segments))
             if loop.kind == "cutout":
-                order = [(si, seg.reversed()) for si, seg in reversed(order)]
-            for si, seg in order:
+                seq = [(si, seg.reversed()) for si, seg in reversed(seq)]
+            for si, seg in seq:
                 tags = []
                 if seg.kind == LINE:
                     tags.append(occ.addLine(pt(seg.start), pt(seg.end)))
@@ -159,8 +164,9 @@ def mesh_part(part: PartGeometry, spec: MeshSpec) -> PartMesh:
 
         # size fields: one Distance + Threshold per feature, combined with Min
         fields = []
+        graded_features = () if uniform else part.features
         growth = spec.growth
-        for f in part.features:
+        for f in graded_features:
             h = sizes[f.name]
             dist = gmsh.model.mesh.field.add("Distance")
             if f.segments:
@@ -197,13 +203,16 @@ def mesh_part(part: PartGeometry, spec: MeshSpec) -> PartMesh:
         gmsh.model.mesh.generate(2)
         for _ in range(spec.refine):
             gmsh.model.mesh.refine()  # nested split; new boundary nodes snap to the curves (pitfalls F2)
-        gmsh.model.mesh.setOrder(2)
-        mesh, bfac, bloop, bseg, minq = _extract(gmsh, curve_ref)
+        if order == 2:
+            gmsh.model.mesh.setOrder(2)
+        mesh, bfac, bloop, bseg, minq = _extract(gmsh, curve_ref, order)
         log = tuple(gmsh.logger.get())
 
-    _check_on_curves(mesh, bfac, bloop, bseg, part)
+    if order == 2:
+        _check_on_curves(mesh, bfac, bloop, bseg, part)
     area = _mesh_area(mesh)
-    if abs(area - expected_area) > 1e-5 * abs(expected_area):
+    # straight-sided baseline meshes lose the sagitta of every arc: a looser check for them
+    if abs(area - expected_area) > (1e-5 if order == 2 else 2e-2) * abs(expected_area):
         raise MeshError(f"mesh area {area:.9g} differs from the part's area {expected_area:.9g} by "
                         f"{abs(area - expected_area) / abs(expected_area):.2%}")
     return PartMesh(mesh=mesh, mapping=iso_mapping(mesh), boundary_facets=bfac, facet_loop=bloop, facet_segment=bseg,
@@ -220,16 +229,17 @@ def _find_point(gmsh, xy) -> int:
     return ents[0][1]
 
 
-def _extract(gmsh, curve_ref: dict[int, tuple[int, int]]):
+def _extract(gmsh, curve_ref: dict[int, tuple[int, int]], order: int = 2):
     """Read the quadratic mesh from the live gmsh model (pitfalls A2) and tag boundary facets."""
-    tri_type = gmsh.model.mesh.getElementType("Triangle", 2)
-    line_type = gmsh.model.mesh.getElementType("Line", 2)
+    tri_type = gmsh.model.mesh.getElementType("Triangle", order)
+    line_type = gmsh.model.mesh.getElementType("Line", order)
+    npe = 6 if order == 2 else 3
     etags, enodes = gmsh.model.mesh.getElementsByType(tri_type)
     if len(etags) == 0:
         raise MeshError("gmsh produced no triangles (is the outline self-intersecting?)")
     node_tags, coords, _ = gmsh.model.mesh.getNodes()
     xy = coords.reshape(-1, 3)[:, :2]
-    tri = enodes.reshape(-1, 6).astype(np.int64)
+    tri = enodes.reshape(-1, npe).astype(np.int64)
     qual = gmsh.model.mesh.getElementQualities(etags, "minSJ")
     minq = float(np.min(qual))
     if minq <= 0:
@@ -243,20 +253,20 @@ def _extract(gmsh, curve_ref: dict[int, tuple[int, int]]):
     compact[used] = np.arange(used.size)
     t6 = compact[tri_idx].T  # (6, nel): corners then midsides 01, 12, 20 (same order as skfem)
     p = xy[used].T
-    mesh = MeshTri2(np.ascontiguousarray(p), np.ascontiguousarray(t6))
+    mesh = (MeshTri2 if order == 2 else MeshTri1)(np.ascontiguousarray(p), np.ascontiguousarray(t6))
     # skfem renumbers corners as np.unique(t[:3]) -> arange (pitfalls A1)
     corner_ids = np.unique(t6[:3])
     facets = np.sort(mesh.facets, axis=0)
     nv = np.int64(mesh.nvertices)
     key_of_facet = facets[0].astype(np.int64) * nv + facets[1]
-    order = np.argsort(key_of_facet)
-    sorted_keys = key_of_facet[order]
+    by_key = np.argsort(key_of_facet)
+    sorted_keys = key_of_facet[by_key]
     fac_list, loop_list, seg_list = [], [], []
     for ctag, (li, si) in curve_ref.items():
         _, lnodes = gmsh.model.mesh.getElementsByType(line_type, ctag)
         if len(lnodes) == 0:
             raise MeshError(f"boundary curve {ctag} (loop {li}, segment {si}) has no elements")
-        ln = compact[lookup[lnodes.reshape(-1, 3)[:, :2].astype(np.int64)]]
+        ln = compact[lookup[lnodes.reshape(-1, order + 1)[:, :2].astype(np.int64)]]
         if (ln < 0).any():
             raise MeshError(f"boundary curve {ctag} has nodes that are not corners of any triangle")
         v = np.searchsorted(corner_ids, ln)
@@ -268,7 +278,7 @@ def _extract(gmsh, curve_ref: dict[int, tuple[int, int]]):
         pos = np.minimum(pos, sorted_keys.size - 1)
         if (sorted_keys[pos] != keys).any():
             raise MeshError(f"boundary curve {ctag} has edges that are not mesh facets")
-        fac_list.append(order[pos])
+        fac_list.append(by_key[pos])
         loop_list.append(np.full(keys.size, li))
         seg_list.append(np.full(keys.size, si))
     bfac = np.concatenate(fac_list)
