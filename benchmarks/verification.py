@@ -25,8 +25,8 @@ from fekt.geometry.build import build_part  # noqa: E402
 from fekt.mesh.build import mesh_part  # noqa: E402
 from fekt.pipeline import run  # noqa: E402
 from fekt.post.fields import boundary_samples  # noqa: E402
-from fekt.solve.elasticity import TractionLoad, solve_elasticity  # noqa: E402
-from fekt.solve.loads import build_loads, traction_loads  # noqa: E402
+from fekt.solver.elasticity import TractionLoad, solve_elasticity  # noqa: E402
+from fekt.solver.loads import build_loads, traction_loads  # noqa: E402
 
 # Howland (1930), gross Kt, from memory (references 1.4)
 HOWLAND = {0.1: 3.03, 0.2: 3.14, 0.3: 3.36, 0.4: 3.74, 0.5: 4.32}

@@ -33,7 +33,7 @@ def kirsch_stress(x: np.ndarray, y: np.ndarray, a: float = 1.0, S: float = 1.0,
 
 
 def kirsch_traction(a: float = 1.0, S: float = 1.0, x0: float = 0.0, y0: float = 0.0):
-    """Traction function t(x, n) = sigma_exact . n for :class:`fekt.solve.elasticity.TractionLoad`."""
+    """Traction function t(x, n) = sigma_exact . n for :class:`fekt.solver.elasticity.TractionLoad`."""
 
     def traction(x, n):
         sxx, syy, sxy = kirsch_stress(x[0], x[1], a, S, x0, y0)

@@ -9,7 +9,7 @@ from fekt.case.schema import Case, CutoutSpec, LoadSpec, Material, MeshSpec, Not
 from fekt.geometry.build import build_part
 from fekt.mesh.build import mesh_part
 from fekt.post.fields import boundary_samples
-from fekt.solve.elasticity import TractionLoad, solve_elasticity
+from fekt.solver.elasticity import TractionLoad, solve_elasticity
 
 
 def rect_outline(L: float, W: float, x0: float = 0.0, y0: float = 0.0) -> tuple[Vertex, ...]:

@@ -12,7 +12,7 @@ import pytest
 
 from fekt.case import load_case
 from fekt.geometry.build import build_part
-from fekt.solve.loads import build_loads
+from fekt.solver.loads import build_loads
 
 CASES = sorted((Path(__file__).resolve().parents[1] / "cases").glob("*.toml"))
 DEMOS = {"demo_link", "demo_strap", "demo_bracket"}
@@ -54,7 +54,7 @@ def test_features_of_the_demo_parts():
     kinds = {p.stem: sorted(f.kind for f in build_part(load_case(p).part).features) for p in CASES}
     assert kinds["demo_link"] == ["fillet"] * 4 + ["hole"]
     assert kinds["demo_strap"] == ["cutout", "notch", "notch"]
-    assert kinds["demo_bracket"] == ["cutout"]
+    assert kinds["demo_bracket"] == ["cutout", "fillet", "fillet"]
     assert kinds["strip_hole"] == ["hole"]
     assert kinds["opposite_u_notches"] == ["notch", "notch"]
     assert kinds["shoulder_fillet"] == ["fillet", "fillet"]

@@ -16,7 +16,7 @@ from fekt.case.schema import CutoutSpec, LoadSpec, NotchSpec, PartSpec, Vertex
 from fekt.errors import GeometryError
 from fekt.geometry.build import build_part
 from fekt.geometry.sections import net_section, section_at
-from fekt.solve.loads import build_loads
+from fekt.solver.loads import build_loads
 
 X = np.array([1.0, 0.0])
 

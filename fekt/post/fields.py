@@ -16,7 +16,7 @@ from skfem import FacetBasis
 from ..errors import SolveError
 from ..geometry.model import PartGeometry
 from ..mesh.build import PartMesh
-from ..solve.elasticity import ElasticSolution, stress_from_grad
+from ..solver.elasticity import ElasticSolution, stress_from_grad
 
 #: facet quadrature order for boundary stress (>= 5 per shared notes E)
 BOUNDARY_INTORDER = 5

@@ -90,7 +90,7 @@ def find_hot_spots(b: BoundarySamples, part: PartGeometry, loaded: set[tuple[int
                 for k in local_maxima(b.s1[ids], False, prom):
                     cands.setdefault(int(ids[k]), "local maximum")
     overall = int(np.where(free)[0][np.argmax(b.s1[free])])
-    cands.setdefault(overall, "overall maximum")
+    cands[overall] = "overall maximum"
     for f in part.features:
         if f.segments:
             m = np.zeros(b.s1.size, dtype=bool)

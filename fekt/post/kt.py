@@ -3,7 +3,7 @@
 Conventions (documented in docs/conventions.md):
 * net section: the shortest cut normal to the load axis through the feature that owns the hot spot
   (geometry.sections.net_section); for a hot spot with no feature, the cut through the hot spot;
-* resultants on a cut from statics of the applied loads (solve.loads.LoadState.resultants);
+* resultants on a cut from statics of the applied loads (solver.loads.LoadState.resultants);
 * sigma_nom = N / A + M (y - yc) / I, with y the hot spot's transverse coordinate clamped to the
   section's extent (so a fillet or notch-root hot spot uses the outer fibre of the net section);
 * Kt_net = sigma_peak / sigma_nom(net); Kt_gross likewise on the gross section, which is the larger
@@ -18,8 +18,8 @@ import numpy as np
 
 from ..errors import SolveError
 from ..geometry.sections import Section, transverse
-from ..solve.elasticity import ElasticSolution
-from ..solve.loads import LoadState
+from ..solver.elasticity import ElasticSolution
+from ..solver.loads import LoadState
 from .fields import probe_stress
 
 #: relative tolerance of the equilibrium check on each net section (issue requirement: 0.5 %)

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..solve.elasticity import stress_from_grad
+from ..solver.elasticity import stress_from_grad
 
 
 def _principal_at_vertices(solved):
