@@ -75,7 +75,7 @@ def write_figure(solved, path: str) -> None:
     if r.hot_spots:
         h = r.hot_spots[0]
         span = max(8 * h.element_size, 3 * (h.radius if np.isfinite(h.radius) and h.radius > 0 else h.element_size))
-        polys = p[:, tri].transpose(2, 1, 0)
+        polys = p[:, tri].transpose(1, 2, 0)  # (elements, 3 corners, xy)
         ax2.add_collection(PolyCollection(polys, facecolors="none", edgecolors="0.35", linewidths=0.5))
         _outline(ax2, solved, LineCollection)
         ax2.plot(h.x, h.y, "o", mfc="none", mec="black", mew=1.5, ms=12)
