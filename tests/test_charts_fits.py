@@ -2,7 +2,7 @@
 
 Every expected number names its source. Nearly all fit coefficients were recalled from the
 named handbook and not re-read: those checks are marked "from memory". Checks tagged
-"derived" were re-computed from the recalled formulas (they test our transcription, not the
+"derived" were re-computed from the recalled formulas (they test how we copied the formulas, not the
 handbook). Nothing here adjusts a fit to agree with anything.
 """
 
