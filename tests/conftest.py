@@ -2,10 +2,9 @@
 
 from __future__ import annotations
 
-import numpy as np
 import pytest
 
-from fekt.case.schema import Case, CutoutSpec, LoadSpec, Material, MeshSpec, NotchSpec, PartSpec, Vertex
+from fekt.case.schema import Case, CutoutSpec, LoadSpec, Material, MeshSpec, PartSpec, Vertex
 from fekt.geometry.build import build_part
 from fekt.mesh.build import mesh_part
 from fekt.post.fields import boundary_samples

@@ -6,7 +6,7 @@ import numpy as np
 import pytest
 
 from conftest import kirsch_solution, rect_outline
-from fekt.case.schema import Case, CutoutSpec, LoadSpec, MeshSpec, PartSpec
+from fekt.case.schema import Case, CutoutSpec, LoadSpec, PartSpec
 from fekt.exact import inglis_kt, kirsch_displacement_radial, kirsch_stress
 from fekt.pipeline import run
 from fekt.post.fields import probe_displacement, probe_stress

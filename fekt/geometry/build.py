@@ -234,7 +234,7 @@ def chain_segments(vertices: list[Vertex], *, item: str, origin: str) -> list[Se
     return segs
 
 
-def _ccw_chain(vertices: tuple[Vertex, ...], item: str) -> list[Vertex]:
+def _ccw_chain(vertices: tuple[Vertex, ...]) -> list[Vertex]:
     verts = list(vertices)
     if len(verts) >= 3 and _chain_area(verts) < 0:
         verts = reverse_chain(verts)
@@ -286,7 +286,7 @@ def cutout_loop(c: CutoutSpec, k: int) -> Loop:
         if len(c.vertices) < 3:
             raise GeometryError(f"a chain cut-out needs at least 3 vertices, got {len(c.vertices)}",
                                 item=f"{item}.vertices")
-        segs = chain_segments(_ccw_chain(c.vertices, item), item=f"{item}.vertices", origin=origin)
+        segs = chain_segments(_ccw_chain(c.vertices), item=f"{item}.vertices", origin=origin)
     else:
         raise GeometryError(f"unknown shape '{c.shape}'", item=f"{item}.shape",
                             hint="one of circle, ellipse, slot, rounded_rectangle, chain")
@@ -341,7 +341,7 @@ def build_part(spec: PartSpec) -> PartGeometry:
     P = np.array([[v.x, v.y] for v in verts])
     if np.linalg.matrix_rank(P[1:] - P[0], tol=1e-12 * (1 + np.abs(P).max())) < 2:
         raise GeometryError("the outline encloses no area (all vertices lie on one line)", item="part.outline")
-    verts = _ccw_chain(tuple(verts), "part.outline")
+    verts = _ccw_chain(tuple(verts))
     verts = insert_notches(verts, spec.notches)
     outline = Loop(tuple(chain_segments(verts, item="part.outline", origin="outline")), "outline", "outline")
     names = [c.name for c in spec.cutouts]

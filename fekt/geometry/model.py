@@ -124,10 +124,6 @@ class Segment:
             return self.radius
         return min(self.a, self.b) ** 2 / max(self.a, self.b)
 
-    def turns_left(self) -> bool:
-        """True if the curve bends to the left of its direction of travel."""
-        return self.ccw
-
     def reversed(self) -> "Segment":
         if self.kind == LINE:
             return Segment(LINE, self.end, self.start, edge=self.edge, origin=self.origin)

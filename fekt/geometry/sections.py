@@ -14,7 +14,7 @@ import numpy as np
 from scipy.optimize import minimize_scalar
 from shapely.geometry import Point, Polygon
 
-from .model import ARC, ELLIPSE, LINE, Feature, PartGeometry, Segment
+from .model import ARC, LINE, Feature, PartGeometry, Segment
 
 
 @dataclass(frozen=True)

@@ -148,3 +148,15 @@ def solve_elasticity(pmesh: PartMesh, E: float, nu: float, model: str,
     return ElasticSolution(basis=basis, u=u, lam=lam, mu=mu, model=model, restraints=restraints,
                            reactions=reactions, load_norm=float(np.abs(f).sum()), ndofs=basis.N,
                            seconds_assemble=t1 - t0, seconds_solve=t2 - t1, solver=solver)
+
+
+#: restraint reactions must vanish for self-equilibrated loads (round-off level; our own tolerance)
+REACTION_TOLERANCE = 1e-8
+
+
+def check_reactions(sol: ElasticSolution) -> None:
+    """Fail when the point restraints carry load: the loads were not self-equilibrated."""
+    r = float(np.max(np.abs(sol.reactions))) / max(sol.load_norm, 1e-300)
+    if r > REACTION_TOLERANCE:
+        raise SolveError(f"the point restraints carry {r:.3g} of the applied load; the loads are not "
+                         "self-equilibrated, so the restraints distort the stress field")
