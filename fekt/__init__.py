@@ -4,22 +4,19 @@ Public API::
 
     import fekt
     case = fekt.load_case("cases/demo_link.toml")
-    result = fekt.solve(case)        # hot spots, net sections, Kt, mesh and timing facts
+    result = fekt.solve(case)        # hot spots, net sections, Kt with uncertainty bands
     result.to_dict()                 # the same content as ``fekt solve --json``
+    study = fekt.converge(case, levels=3)   # refinement study (``fekt converge``)
 """
 
 __version__ = "0.1.0"
-__all__ = ["load_case", "parse_case", "solve", "run", "__version__"]
+__all__ = ["load_case", "parse_case", "solve", "converge", "__version__"]
 
 
 def __getattr__(name):
     # heavy imports (gmsh, scikit-fem) only when the API is used
-    if name in ("load_case", "parse_case"):
-        from .case import loader
+    if name in ("load_case", "parse_case", "solve", "converge"):
+        from . import api
 
-        return getattr(loader, name)
-    if name in ("solve", "run"):
-        from . import pipeline
-
-        return getattr(pipeline, name)
+        return getattr(api, name)
     raise AttributeError(name)

@@ -20,13 +20,14 @@ class UsageError(InputError):
 
 
 def build_parser() -> argparse.ArgumentParser:
-    from . import solve_cmd
+    from . import converge_cmd, solve_cmd
 
     p = argparse.ArgumentParser(prog="fekt", description="Elastic stress concentration factors (Kt) of flat "
                                 "notched parts by finite elements.")
     p.add_argument("--debug", action="store_true", help="show tracebacks for errors")
     sub = p.add_subparsers(dest="command", required=True)
     solve_cmd.add_parser(sub)
+    converge_cmd.add_parser(sub)
     return p
 
 

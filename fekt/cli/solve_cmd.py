@@ -1,12 +1,10 @@
-"""``fekt solve CASE``: one case, ranked hot spots with Kt."""
+"""``fekt solve CASE``: one case, ranked hot spots with Kt and an uncertainty on each."""
 
 from __future__ import annotations
 
 import json
 import os
-import shutil
 import sys
-import tempfile
 
 
 def add_parser(sub) -> None:
@@ -16,66 +14,55 @@ def add_parser(sub) -> None:
     p.add_argument("--out", metavar="DIR", help="write result.json, report.txt and stress.png into DIR")
     p.add_argument("--force", action="store_true", help="replace DIR if it already exists")
     p.add_argument("--elements-per-radius", type=float, help="override the case's mesh.elements_per_radius")
+    p.add_argument("--no-estimate", action="store_true",
+                   help="skip the second, coarser mesh that gives each Kt its uncertainty band")
     p.set_defaults(run=run)
 
 
-def prepare_out_dir(path: str, force: bool) -> None:
+def load(args):
+    """The case named on the command line, with mesh overrides applied."""
+    import dataclasses
+
+    from ..case.loader import load_case
     from .main import UsageError
 
-    if os.path.exists(path) and (not os.path.isdir(path) or os.listdir(path)) and not force:
-        raise UsageError(f"output folder '{path}' already exists and is not empty",
-                         hint="choose another folder or pass --force to replace it")
-
-
-def publish_dir(tmp: str, path: str) -> None:
-    """Move a finished temporary folder into place (replacing an old one only at the very end)."""
-    if os.path.exists(path):
-        old = path.rstrip("/") + ".old-fekt"
-        os.replace(path, old)
-        os.replace(tmp, path)
-        shutil.rmtree(old, ignore_errors=True)
-    else:
-        os.replace(tmp, path)
+    if not os.path.isfile(args.case):
+        raise UsageError(f"case file '{args.case}' not found")
+    case = load_case(args.case)
+    if args.elements_per_radius is not None:
+        if not args.elements_per_radius > 0:
+            raise UsageError(f"--elements-per-radius {args.elements_per_radius:g} must be positive")
+        case = dataclasses.replace(case, mesh=dataclasses.replace(case.mesh,
+                                                                   elements_per_radius=args.elements_per_radius))
+    return case
 
 
 def run(args) -> int:
     import dataclasses
 
-    from ..case.loader import load_case
     from ..pipeline import run as run_case
     from ..report.files import write_json, write_text
     from ..report.text import format_result
-    from .main import UsageError
+    from .output import check_out_dir, write_out_dir
 
-    if not os.path.isfile(args.case):
-        raise UsageError(f"case file '{args.case}' not found")
     if args.out:
-        prepare_out_dir(args.out, args.force)
-    case = load_case(args.case)
-    if args.elements_per_radius:
-        case = dataclasses.replace(case, mesh=dataclasses.replace(case.mesh,
-                                                                   elements_per_radius=args.elements_per_radius))
+        check_out_dir(args.out, args.force)
+    case = load(args)
     solved = run_case(case)
     result = solved.result
+    if not args.no_estimate:
+        from ..studies.convergence import two_grid_uncertainty
+
+        result = dataclasses.replace(result, uncertainty=two_grid_uncertainty(case, result))
+        solved = dataclasses.replace(solved, result=result)
     text = format_result(result)
-    if args.json:
-        print(json.dumps(result.to_dict(), indent=2))
-    else:
-        print(text)
+    print(json.dumps(result.to_dict(), indent=2) if args.json else text)
     if args.out:
         from ..report.plots import write_figure
 
-        parent = os.path.dirname(os.path.abspath(args.out))
-        os.makedirs(parent, exist_ok=True)
-        tmp = tempfile.mkdtemp(prefix=".fekt-out-", dir=parent)
-        try:
-            write_json(os.path.join(tmp, "result.json"), result.to_dict())
-            write_text(os.path.join(tmp, "report.txt"), text + "\n")
-            write_figure(solved, os.path.join(tmp, "stress.png"))
-            publish_dir(tmp, args.out)
-        except BaseException:
-            shutil.rmtree(tmp, ignore_errors=True)
-            raise
+        write_out_dir(args.out, {"result.json": lambda p: write_json(p, result.to_dict()),
+                                 "report.txt": lambda p: write_text(p, text + "\n"),
+                                 "stress.png": lambda p: write_figure(solved, p)})
         if not args.json:
             print(f"wrote {args.out}/result.json, report.txt, stress.png", file=sys.stderr)
     return 0

@@ -17,7 +17,7 @@ from ..mesh.build import PartMesh
 from ..solver.elasticity import ElasticSolution
 from ..solver.loads import LoadState
 from .fields import BoundarySamples
-from .hotspots import find_hot_spots
+from .hotspots import find_hot_spots, local_scatter
 from .kt import check_equilibrium, gross_section, kt, nominal_stress, require_equilibrium
 
 #: an edge maximum (no feature) within this fraction of its own nominal stress is a Saint-Venant
@@ -60,6 +60,7 @@ class HotSpot:
     sigma_nom_gross: float
     kt_gross: float | None
     equilibrium_error: float  # largest relative error of N, M on the net section
+    scatter: float  # roughness of the boundary stress at the peak (stress units; see post.hotspots.local_scatter)
 
 
 @dataclass(frozen=True)
@@ -70,7 +71,7 @@ class Assessment:
 
 
 def assess(samples: BoundarySamples, part: PartGeometry, pmesh: PartMesh, sol: ElasticSolution,
-           loads: LoadState, thickness: float, *, check_sections: bool = True) -> Assessment:
+           loads: LoadState, thickness: float, *, equilibrium: str = "fail") -> Assessment:
     """Ranked hot spots with net sections and Kt; the most compressive boundary stress."""
     loaded = {e.segment for e in loads.ends}
     corner_r = {name: 3.0 * h for name, h in pmesh.feature_sizes.items()}
@@ -94,8 +95,8 @@ def assess(samples: BoundarySamples, part: PartGeometry, pmesh: PartMesh, sol: E
             sections[key] = section_at(part, axis, float(xy @ axis), thickness, poly)
         sec = sections[key]
         if key not in eq_errors:
-            chk = check_equilibrium(sol, sec, loads) if check_sections else None
-            if chk is not None and p.feature is not None and not p.feature.singular:
+            chk = check_equilibrium(sol, sec, loads) if equilibrium != "off" else None
+            if chk is not None and equilibrium == "fail" and p.feature is not None and not p.feature.singular:
                 require_equilibrium(chk, key)  # feature sections are refined: failure means a real fault
             elif chk is not None and not chk.ok:
                 warnings.append(
@@ -116,7 +117,8 @@ def assess(samples: BoundarySamples, part: PartGeometry, pmesh: PartMesh, sol: E
             element_size=pmesh.feature_sizes.get(f.name, pmesh.size_max) if f else pmesh.size_max,
             net_section=SectionInfo.of(sec), N=nom.N, M=nom.M, sigma_nom_net=nom.sigma,
             kt_net=kt(peak, nom), gross_end=gross_name, sigma_nom_gross=gnom.sigma, kt_gross=kt(peak, gnom),
-            equilibrium_error=eq_errors[key]))
+            equilibrium_error=eq_errors[key],
+            scatter=local_scatter(samples, p.index)))
     # drop Saint-Venant ripples on plain edges (EDGE_MARGIN); the overall maximum always stays
     spots = [d for d in spots if d["feature_kind"] != "edge" or d["found_as"] == "overall maximum"
              or d["kt_net"] is None or d["kt_net"] >= 1 + EDGE_MARGIN]

@@ -136,3 +136,27 @@ def _merge_distance(p: Peak, part: PartGeometry) -> float:
         x0, y0, x1, y1 = part.bounding_box()
         return 1e-3 * max(x1 - x0, y1 - y0)
     return 0.05 * p.feature.radius
+
+
+#: half-width of the window for the local scatter, in boundary samples (about two facets of the
+#: 3-point facet rule on each side; our own choice)
+SCATTER_WINDOW = 7
+
+
+def local_scatter(b: BoundarySamples, index: int) -> float:
+    """Largest deviation of the boundary samples near a hot spot from a local quadratic fit in arc length.
+
+    P2 stresses jump between elements; this measures that roughness at the peak on the mesh itself and
+    serves as a floor for uncertainty bands (a two-grid difference can be small by accident). Our own
+    measure, no published source; at 16 elements per radius it bounded the error (against a 64 elements
+    per radius solution) of 7 of the 8 notch hot spots of the demo link and strip cases; the eighth was
+    covered by the two-grid band."""
+    lo, hi = max(index - SCATTER_WINDOW, 0), min(index + SCATTER_WINDOW + 1, b.s.size)
+    m = np.arange(lo, hi)
+    m = m[b.loop[m] == b.loop[index]]
+    if m.size < 5:
+        return 0.0
+    x = b.s[m] - b.s[index]
+    y = b.s1[m]
+    c = np.polyfit(x, y, 2)
+    return float(np.max(np.abs(y - np.polyval(c, x))))

@@ -45,7 +45,7 @@ def format_result(r: Result) -> str:
         unc = ""
         if r.uncertainty and str(h.rank) in r.uncertainty.get("hot_spots", {}):
             u = r.uncertainty["hot_spots"][str(h.rank)]
-            unc = "+-" + _num(u["kt_net_band"], 2) if u.get("kt_net_band") is not None else "?"
+            unc = "+-" + _num(u["kt_net_band"], 2) if u.get("kt_net_band") is not None else "(no band)"
         rows.append([str(h.rank), feat, f"({_num(h.x, 5)}, {_num(h.y, 5)})", _num(h.peak),
                      _num(h.sigma_nom_net), kt_net + (f" {unc}" if unc else ""), _num(h.kt_gross),
                      _num(h.net_section.width), f"{_num(h.element_size, 3)} / {rad}"])

@@ -1,0 +1,43 @@
+"""Howland strip: converged FE (64 elements per radius, and a 3-level study from 16) against the
+Howland (1930) table recalled from memory. Writes benchmarks/HOWLAND.md itself."""
+
+from __future__ import annotations
+
+import os
+import sys
+
+HERE = os.path.dirname(os.path.abspath(__file__))
+sys.path.insert(0, os.path.join(HERE, "..", "tests"))
+
+from conftest import strip_case  # noqa: E402
+
+from fekt.case.schema import MeshSpec  # noqa: E402
+from fekt.pipeline import run  # noqa: E402
+from fekt.studies.convergence import converge  # noqa: E402
+
+HOWLAND = {0.1: 3.03, 0.2: 3.14, 0.3: 3.36, 0.4: 3.74, 0.5: 4.32}  # gross Kt, from memory (references 1.4)
+
+
+def main() -> None:
+    lines = ["# Howland strip: converged FE against the recalled table (written by benchmarks/howland_fine.py)", "",
+             "Strip W = 40, length 8W, central hole; Kt on the gross section. Study: 16, 32, 64 elements per "
+             "radius, GCI band on the finest value.", "",
+             "| d/W | Howland (from memory) | FE, 64 el./radius | Richardson value | GCI band | FE - table |",
+             "|---|---|---|---|---|---|"]
+    for x, ref in HOWLAND.items():
+        case = strip_case(W=40.0, L=320.0, d=40.0 * x, mesh=MeshSpec(elements_per_radius=16))
+        study = converge(case, levels=3)
+        s = max((s for s in study.spots if s.key == "cut-out 'hole'"), key=lambda s: s.values[0])
+        g = s.gross_over_net
+        fine = s.values[0] * g
+        ext = s.extrapolated * g if s.extrapolated is not None else float("nan")
+        band = s.band * g if s.band is not None else float("nan")
+        lines.append(f"| {x} | {ref:.2f} | {fine:.4f} | {ext:.4f} | +-{band:.4f} | {100 * (fine - ref) / ref:+.2f} % |")
+    text = "\n".join(lines) + "\n"
+    print(text)
+    with open(os.path.join(HERE, "HOWLAND.md"), "w", encoding="utf-8") as fh:
+        fh.write(text)
+
+
+if __name__ == "__main__":
+    main()

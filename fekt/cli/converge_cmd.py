@@ -1,0 +1,62 @@
+"""``fekt converge CASE``: a refinement ladder with the observed order, Richardson value and GCI band."""
+
+from __future__ import annotations
+
+import json
+import sys
+
+
+def add_parser(sub) -> None:
+    p = sub.add_parser("converge", help="refine the mesh systematically and report how each Kt converges")
+    p.add_argument("case", help="case file (TOML)")
+    p.add_argument("--levels", type=int, default=3, help="number of meshes (default 3; level 0 is the case's mesh)")
+    p.add_argument("--ratio", type=float, default=2.0, help="refinement ratio between levels (default 2)")
+    p.add_argument("--nested", action="store_true",
+                   help="split every element in gmsh instead (ratio 2, the far field is refined too)")
+    p.add_argument("--jobs", type=int, default=1, help="levels solved in parallel processes (default 1)")
+    p.add_argument("--elements-per-radius", type=float, help="level 0: override the case's elements per radius")
+    p.add_argument("--json", action="store_true", help="print the study as JSON")
+    p.add_argument("--out", metavar="DIR", help="write study.json, study.csv, report.txt and convergence.png")
+    p.add_argument("--force", action="store_true", help="replace DIR if it already exists")
+    p.set_defaults(run=run)
+
+
+def run(args) -> int:
+    from ..report.convergence import format_study, study_csv, write_study_plot
+    from ..report.files import write_json, write_text
+    from ..studies.convergence import converge
+    from .main import UsageError
+    from .output import check_out_dir, write_out_dir
+    from .solve_cmd import load
+
+    if args.jobs < 1:
+        raise UsageError(f"--jobs {args.jobs} must be at least 1")
+    if args.out:
+        check_out_dir(args.out, args.force)
+    case = load(args)
+    show = not args.json and sys.stderr.isatty()
+    bar = None
+    if show:
+        from tqdm import tqdm
+
+        bar = tqdm(total=args.levels, desc="mesh levels", unit="level", file=sys.stderr)
+
+    def progress(i, level):
+        if bar is not None:
+            bar.set_postfix_str(f"level {i}: {int(level.dofs)} DOFs, {level.seconds:.1f} s")
+            bar.update(1)
+
+    try:
+        study = converge(case, levels=args.levels, ratio=args.ratio, nested=args.nested, jobs=args.jobs,
+                         progress=progress)
+    finally:
+        if bar is not None:
+            bar.close()
+    text = format_study(study)
+    print(json.dumps(study.to_dict(), indent=2, allow_nan=False) if args.json else text)
+    if args.out:
+        write_out_dir(args.out, {"study.json": lambda p: write_json(p, study.to_dict()),
+                                 "study.csv": lambda p: write_text(p, study_csv(study)),
+                                 "report.txt": lambda p: write_text(p, text + "\n"),
+                                 "convergence.png": lambda p: write_study_plot(study, p)})
+    return 0
