@@ -21,6 +21,7 @@ from typing import TypeVar
 
 from fekt.case.expr import evaluate, resolve_parameters
 from fekt.case.schema import (
+    FAMILIES,
     FORCE_UNITS,
     LENGTH_UNITS,
     Case,
@@ -45,7 +46,7 @@ BULGES = ("out", "in")
 _TOP_KEYS = ("case", "units", "parameters", "part", "material", "load", "mesh")
 _CASE_KEYS = ("name", "description", "demo")
 _UNITS_KEYS = ("length", "force")
-_PART_KEYS = ("model", "thickness", "outline", "cutouts", "notches")
+_PART_KEYS = ("model", "thickness", "outline", "cutouts", "notches", "family", "dimensions")
 _OUTLINE_VERTEX_KEYS = ("x", "y", "edge", "fillet", "arc")
 # Cut-out chains have no edge names: nothing refers to the edges of a hole.
 _CHAIN_VERTEX_KEYS = ("x", "y", "fillet", "arc")
@@ -113,7 +114,8 @@ def case_from_dict(data: dict, source: str) -> Case:
     params = resolve_parameters(root.get("parameters", {}), item_prefix="parameters")
     part = _part(_required(root, "part", ""), params)
     material = _material(root.get("material", {}), params)
-    load = _load(_required(root, "load", ""), params, _edge_names(part.outline))
+    edges = list(FAMILIES[part.family].edges) if part.family else _edge_names(part.outline)
+    load = _load(_required(root, "load", ""), params, edges, default_ends=("left", "right") if part.family else None)
     mesh = _mesh(root.get("mesh", {}), params)
     return Case(name=name, part=part, load=load, material=material, mesh=mesh, units=units,
                 description=description, parameters=tuple(params.items()), source=source, demo=demo)
@@ -279,6 +281,8 @@ def _part(raw: object, params: Mapping[str, float]) -> PartSpec:
                         hint="a plane-stress part needs its thickness to turn forces into stresses")
     else:
         thickness = 1.0  # plane strain: per unit thickness
+    if "family" in table:
+        return _family_part(table, params, model, thickness)
     outline = _outline(_required(table, "outline", "part"), params)
     cutouts = _items(table, "cutouts", params, _cutout)
     _unique([c.name for c in cutouts], "part.cutouts", "cut-out")
@@ -286,6 +290,24 @@ def _part(raw: object, params: Mapping[str, float]) -> PartSpec:
     _unique([n.name for n in notches], "part.notches", "notch")
     notches = tuple(_notch_on_outline(n, k, outline) for k, n in enumerate(notches))
     return PartSpec(outline=outline, cutouts=cutouts, notches=notches, model=model, thickness=thickness)
+
+
+def _family_part(table: Mapping[str, object], params: Mapping[str, float], model: str,
+                 thickness: float) -> PartSpec:
+    """A standard shape given by its handbook dimensions (see schema.FAMILIES)."""
+    family = _choice(table["family"], tuple(FAMILIES), "part.family")
+    for key in ("outline", "cutouts", "notches"):
+        if key in table:
+            raise CaseError(f"'{key}' cannot be combined with family = '{family}'", item=f"part.{key}",
+                            hint="a family builds the whole outline from its dimensions; remove one of them")
+    shape = FAMILIES[family]
+    dims = _table(_required(table, "dimensions", "part"), "part.dimensions")
+    _check_keys(dims, shape.required + shape.optional, "part.dimensions")
+    for key in shape.required:
+        _required(dims, key, "part.dimensions")
+    values = tuple((k, _positive(dims[k], params, f"part.dimensions.{k}")) for k in shape.required + shape.optional
+                   if k in dims)
+    return PartSpec(outline=(), model=model, thickness=thickness, family=family, dimensions=values)
 
 
 def _items(table: Mapping[str, object], key: str, params: Mapping[str, float],
@@ -476,10 +498,14 @@ def _ends(raw: object, edges: Sequence[str]) -> tuple[str, str]:
     return first, second
 
 
-def _load(raw: object, params: Mapping[str, float], edges: Sequence[str]) -> LoadSpec:
+def _load(raw: object, params: Mapping[str, float], edges: Sequence[str],
+          default_ends: tuple[str, str] | None = None) -> LoadSpec:
     table = _table(raw, "load")
     _check_keys(table, _LOAD_KEYS, "load")
-    ends = _ends(_required(table, "ends", "load"), edges)
+    if "ends" not in table and default_ends:
+        ends = default_ends  # standard shapes are loaded at their ends "left" and "right"
+    else:
+        ends = _ends(_required(table, "ends", "load"), edges)
     if "force" in table and "stress" in table:
         raise CaseError("give either force or stress, not both", item="load.stress",
                         hint="stress is the nominal stress on the first end's section; force = stress * area")

@@ -100,12 +100,49 @@ class CutoutSpec:
 
 
 @dataclass(frozen=True)
+class FamilyShape:
+    """A standard shape described by handbook dimensions (built by geometry.families).
+
+    ``required``/``optional``: dimension names; ``edges``: the outline edge names it creates (loads
+    refer to them; the loaded ends are always "left" and "right")."""
+
+    required: tuple[str, ...]
+    optional: tuple[str, ...]
+    edges: tuple[str, ...]
+    description: str
+
+
+_RECT_EDGES = ("bottom", "right", "top", "left")
+#: standard shapes with the handbook's own dimensions (load axis x; ends "left" and "right")
+FAMILIES: dict[str, FamilyShape] = {
+    "strip_hole": FamilyShape(("W", "d"), ("L",), _RECT_EDGES,
+                              "flat bar of width W with a central circular hole of diameter d; length L (default 8W)"),
+    "opposite_u_notches": FamilyShape(("H", "t", "r"), ("L",), _RECT_EDGES,
+                                      "flat bar of width H with two opposite U-notches of depth t and root "
+                                      "radius r at mid-length; length L (default 8H)"),
+    "single_u_notch": FamilyShape(("H", "t", "r"), ("L",), _RECT_EDGES,
+                                  "flat bar of width H with one U-notch (depth t, root radius r) in the top "
+                                  "edge at mid-length; length L (default 8H)"),
+    "shoulder_fillet": FamilyShape(("D", "d", "r"), ("L",),
+                                   ("bottom_wide", "step_bottom", "bottom_narrow", "right", "top_narrow",
+                                    "step_top", "top_wide", "left"),
+                                   "flat bar stepping symmetrically from width D to width d with fillets of "
+                                   "radius r; each part L long (default 3D)"),
+    "elliptical_hole": FamilyShape(("a", "b"), ("W", "L"), _RECT_EDGES,
+                                   "plate of width W (default 20a) with a central elliptical hole, semi-axis "
+                                   "a across the load and b along it; length L (default 8W)"),
+}
+
+
+@dataclass(frozen=True)
 class PartSpec:
     outline: tuple[Vertex, ...]
     cutouts: tuple[CutoutSpec, ...] = ()
     notches: tuple[NotchSpec, ...] = ()
     model: str = "plane_stress"  # or "plane_strain"
     thickness: float = 1.0
+    family: str | None = None  # a key of FAMILIES: the outline is built from ``dimensions``
+    dimensions: tuple[tuple[str, float], ...] = ()
 
 
 # --- material, load, mesh -----------------------------------------------------------------------

@@ -17,6 +17,7 @@ from shapely.validation import explain_validity
 
 from ..case.schema import CutoutSpec, NotchSpec, PartSpec, Vertex
 from ..errors import GeometryError
+from .families import expand_family
 from .features import detect_features
 from .model import ARC, ELLIPSE, LINE, Loop, PartGeometry, Segment
 
@@ -331,6 +332,7 @@ def validate(loops: list[Loop]) -> None:
 
 def build_part(spec: PartSpec) -> PartGeometry:
     """Turn a part description into a validated geometry with its notch features."""
+    spec = expand_family(spec)
     if spec.thickness <= 0:
         raise GeometryError(f"thickness = {spec.thickness:.6g} must be positive", item="part.thickness")
     if spec.model not in ("plane_stress", "plane_strain"):
