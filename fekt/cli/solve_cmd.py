@@ -38,9 +38,7 @@ def load(args):
 
 
 def run(args) -> int:
-    import dataclasses
-
-    from ..pipeline import run as run_case
+    from ..api import solve_full
     from ..report.files import write_json, write_text
     from ..report.text import format_result
     from .output import check_out_dir, write_out_dir
@@ -48,13 +46,8 @@ def run(args) -> int:
     if args.out:
         check_out_dir(args.out, args.force)
     case = load(args)
-    solved = run_case(case)
+    solved = solve_full(case, estimate=not args.no_estimate)
     result = solved.result
-    if not args.no_estimate:
-        from ..studies.convergence import two_grid_uncertainty
-
-        result = dataclasses.replace(result, uncertainty=two_grid_uncertainty(case, result))
-        solved = dataclasses.replace(solved, result=result)
     text = format_result(result)
     print(json.dumps(result.to_dict(), indent=2) if args.json else text)
     if args.out:

@@ -104,16 +104,23 @@ def mesh_part(part: PartGeometry, spec: MeshSpec, *, order: int = 2, uniform: bo
         gmsh.model.add("part")
         occ = gmsh.model.occ
         curve_ref: dict[int, tuple[int, int]] = {}
+        bx0, by0, bx1, by1 = part.bounding_box()
+        snap = 1e-9 * max(bx1 - bx0, by1 - by0)
         loop_tags = []
         seg_curves: dict[tuple[int, int], list[int]] = {}
         for li, loop in enumerate(part.loops):
-            point_tags: dict[tuple[float, float], int] = {}
+            point_tags: list[tuple[float, float, int]] = []
 
             def pt(xy) -> int:
-                key = (float(xy[0]), float(xy[1]))
-                if key not in point_tags:
-                    point_tags[key] = occ.addPoint(key[0], key[1], 0.0)
-                return point_tags[key]
+                # segment ends computed along different routes (a fillet's tangent point, a vertex)
+                # may differ by round-off: one gmsh point per location, or the loop would not close
+                x, y = float(xy[0]), float(xy[1])
+                for px, py, tag in point_tags:
+                    if abs(px - x) <= snap and abs(py - y) <= snap:
+                        return tag
+                tag = occ.addPoint(x, y, 0.0)
+                point_tags.append((x, y, tag))
+                return tag
 
             curves = []
             centres = []
