@@ -12,7 +12,6 @@ sys.path.insert(0, os.path.join(HERE, "..", "tests"))
 from conftest import strip_case  # noqa: E402
 
 from fekt.case.schema import MeshSpec  # noqa: E402
-from fekt.pipeline import run  # noqa: E402
 from fekt.studies.convergence import converge  # noqa: E402
 
 HOWLAND = {0.1: 3.03, 0.2: 3.14, 0.3: 3.36, 0.4: 3.74, 0.5: 4.32}  # gross Kt, from memory (references 1.4)
