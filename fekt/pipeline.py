@@ -14,6 +14,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from .case.schema import Case
+from .errors import SolveError
 from .geometry.build import build_part
 from .geometry.model import PartGeometry
 from .mesh.build import PartMesh, mesh_part
@@ -112,11 +113,16 @@ def run(case: Case, *, equilibrium: str = "fail") -> Solved:
     check_reactions(sol)
     t3 = time.perf_counter()
     samples = boundary_samples(sol, pmesh, part)
-    assessed = assess(samples, part, pmesh, sol, loads, case.part.thickness,
-                      equilibrium=equilibrium)
+    try:
+        assessed = assess(samples, part, pmesh, sol, loads, case.part.thickness, equilibrium=equilibrium)
+    except SolveError as exc:
+        if not pmesh.warnings:
+            raise
+        # the mesh stage usually saw the cause (a thin ligament): say so with the failure
+        raise SolveError(f"{exc}; the mesh stage warned: " + "; ".join(pmesh.warnings)) from exc
     t4 = time.perf_counter()
     warnings = list(part.warnings)
-    warnings += _mesh_warnings(pmesh) + list(assessed.warnings)
+    warnings += list(pmesh.warnings) + _mesh_warnings(pmesh) + list(assessed.warnings)
     result = Result(
         case_name=case.name, source=case.source, demo=case.demo,
         units={"length": case.units.length, "force": case.units.force, "stress": case.units.stress,

@@ -46,7 +46,8 @@ BULGES = ("out", "in")
 _TOP_KEYS = ("case", "units", "parameters", "part", "material", "load", "mesh")
 _CASE_KEYS = ("name", "description", "demo")
 _UNITS_KEYS = ("length", "force")
-_PART_KEYS = ("model", "thickness", "outline", "cutouts", "notches", "family", "dimensions")
+_PART_KEYS = ("model", "thickness", "outline", "cutouts", "notches", "family", "dimensions", "dxf", "dxf_units",
+              "dxf_tolerance")
 _OUTLINE_VERTEX_KEYS = ("x", "y", "edge", "fillet", "arc")
 # Cut-out chains have no edge names: nothing refers to the edges of a hole.
 _CHAIN_VERTEX_KEYS = ("x", "y", "fillet", "arc")
@@ -71,7 +72,7 @@ _SHAPE_REQUIRED: Mapping[str, tuple[str, ...]] = {
 SHAPES = tuple(_SHAPE_KEYS)
 _MATERIAL_KEYS = ("E", "nu")
 _LOAD_KEYS = ("ends", "force", "stress", "moment")
-_MESH_KEYS = ("elements_per_radius", "size", "growth")
+_MESH_KEYS = ("elements_per_radius", "size", "growth", "max_elements")
 
 
 # --- public API ----------------------------------------------------------------------------------
@@ -112,7 +113,7 @@ def case_from_dict(data: dict, source: str) -> Case:
     name, description, demo = _case_info(root.get("case", {}), source)
     units = _units(root.get("units", {}))
     params = resolve_parameters(root.get("parameters", {}), item_prefix="parameters")
-    part = _part(_required(root, "part", ""), params)
+    part = _part(_required(root, "part", ""), params, units, source)
     material = _material(root.get("material", {}), params)
     edges = list(FAMILIES[part.family].edges) if part.family else _edge_names(part.outline)
     load = _load(_required(root, "load", ""), params, edges, default_ends=("left", "right") if part.family else None)
@@ -270,7 +271,7 @@ def _units(raw: object) -> Units:
 
 # --- [part] --------------------------------------------------------------------------------------------
 
-def _part(raw: object, params: Mapping[str, float]) -> PartSpec:
+def _part(raw: object, params: Mapping[str, float], units: Units | None = None, source: str = "") -> PartSpec:
     table = _table(raw, "part")
     _check_keys(table, _PART_KEYS, "part")
     model = _choice(table.get("model", "plane_stress"), MODELS, "part.model")
@@ -283,13 +284,38 @@ def _part(raw: object, params: Mapping[str, float]) -> PartSpec:
         thickness = 1.0  # plane strain: per unit thickness
     if "family" in table:
         return _family_part(table, params, model, thickness)
-    outline = _outline(_required(table, "outline", "part"), params)
-    cutouts = _items(table, "cutouts", params, _cutout)
+    if "dxf" in table:
+        outline, cutouts = _dxf_part(table, params, units or Units(), source)
+    else:
+        for key in ("dxf_units", "dxf_tolerance"):
+            if key in table:
+                raise CaseError(f"'{key}' only applies with part.dxf", item=f"part.{key}")
+        outline = _outline(_required(table, "outline", "part"), params)
+        cutouts = ()
+    cutouts = cutouts + _items(table, "cutouts", params, _cutout)
     _unique([c.name for c in cutouts], "part.cutouts", "cut-out")
     notches = _items(table, "notches", params, _notch)
     _unique([n.name for n in notches], "part.notches", "notch")
     notches = tuple(_notch_on_outline(n, k, outline) for k, n in enumerate(notches))
     return PartSpec(outline=outline, cutouts=cutouts, notches=notches, model=model, thickness=thickness)
+
+
+def _dxf_part(table: Mapping[str, object], params: Mapping[str, float], units: Units,
+              source: str) -> tuple[tuple[Vertex, ...], tuple[CutoutSpec, ...]]:
+    """Outline and cut-outs from the DXF drawing named by part.dxf (relative to the case file)."""
+    from .dxf import MM_PER_UNIT, read_outline
+
+    if "outline" in table:
+        raise CaseError("give either part.outline or part.dxf, not both", item="part.outline")
+    name = _text(table["dxf"], "part.dxf")
+    base = Path(source).parent if source and not source.startswith("<") else Path(".")
+    path = (base / name) if not Path(name).is_absolute() else Path(name)
+    if not path.is_file():
+        raise CaseError(f"DXF file '{path}' not found", item="part.dxf", hint="the path is relative to the case file")
+    unit = _choice(table["dxf_units"], tuple(MM_PER_UNIT), "part.dxf_units") if "dxf_units" in table else None
+    tol = _positive(table["dxf_tolerance"], params, "part.dxf_tolerance") if "dxf_tolerance" in table else None
+    drawing = read_outline(path, case_unit=units.length, drawing_unit=unit, tolerance=tol)
+    return drawing.outline, drawing.cutouts
 
 
 def _family_part(table: Mapping[str, object], params: Mapping[str, float], model: str,
@@ -528,4 +554,5 @@ def _mesh(raw: object, params: Mapping[str, float]) -> MeshSpec:
                            "mesh.elements_per_radius")
     size = _positive(table["size"], params, "mesh.size") if "size" in table else None
     growth = _positive(table.get("growth", default.growth), params, "mesh.growth")
-    return MeshSpec(elements_per_radius=per_radius, size=size, growth=growth)
+    cap = _positive(table.get("max_elements", default.max_elements), params, "mesh.max_elements")
+    return MeshSpec(elements_per_radius=per_radius, size=size, growth=growth, max_elements=int(cap))

@@ -182,6 +182,7 @@ class MeshSpec:
     size: float | None = None
     growth: float = 0.25
     refine: int = 0  # uniform splits in gmsh after generation (nested refinement for studies)
+    max_elements: int = 400_000  # refuse meshes estimated larger than this (memory and time guard)
 
 
 @dataclass(frozen=True)

@@ -44,7 +44,9 @@ def main(argv: list[str] | None = None) -> int:
     except InputError as exc:
         if args.debug:
             raise
-        print(f"fekt: error: {exc}", file=sys.stderr)
+        where = getattr(args, "case", None)
+        prefix = f"{where}: " if where and where not in str(exc) else ""
+        print(f"fekt: error: {prefix}{exc}", file=sys.stderr)
         return EXIT_INPUT
     except FektError as exc:
         if args.debug:

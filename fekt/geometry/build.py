@@ -354,7 +354,28 @@ def build_part(spec: PartSpec) -> PartGeometry:
     loops = [outline] + [cutout_loop(c, k) for k, c in enumerate(spec.cutouts)]
     validate(loops)
     features, warnings = detect_features(loops, notch_names={n.name for n in spec.notches})
+    warnings += proportion_warnings(loops, features)
     return PartGeometry(tuple(loops), tuple(features), tuple(warnings))
+
+
+#: proportions beyond which meshes get large or badly graded (our own limits)
+MAX_ASPECT = 50.0
+MAX_SCALE_RATIO = 1e4
+
+
+def proportion_warnings(loops, features) -> list[str]:
+    pts = loops[0].polygon_points()
+    w = float(pts[0].max() - pts[0].min())
+    h = float(pts[1].max() - pts[1].min())
+    out = []
+    if max(w, h) > MAX_ASPECT * min(w, h):
+        out.append(f"the part is {max(w, h) / min(w, h):.0f} times longer than wide: expect a large mesh; "
+                   "model only the length that matters (a few widths either side of the notches)")
+    radii = [f.radius for f in features if f.radius > 0]
+    if radii and max(w, h) > MAX_SCALE_RATIO * min(radii):
+        out.append(f"the smallest notch radius ({min(radii):.3g}) is {max(w, h) / min(radii):.0f} times smaller than "
+                   "the part: expect a large mesh and long solve")
+    return out
 
 
 __all__ = ["build_part", "chain_segments", "cutout_loop", "insert_notches", "validate"]

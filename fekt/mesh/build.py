@@ -63,6 +63,7 @@ class PartMesh:
     area: float
     seconds: float
     gmsh_log: tuple[str, ...] = field(default=())
+    warnings: tuple[str, ...] = field(default=())
 
     def facets_of(self, refs: list[tuple[int, int]]) -> np.ndarray:
         """Boundary facets lying on any of the given (loop, segment) pairs."""
@@ -87,6 +88,19 @@ def feature_size(radius: float, spec: MeshSpec, size_max: float, smallest: float
     return min(smallest, size_max / spec.elements_per_radius)
 
 
+def estimated_elements(part: PartGeometry, sizes: dict[str, float], size_max: float, spec: MeshSpec) -> float:
+    """Rough triangle count before meshing: far field area / h_max^2 plus, around each feature of
+    length l and size h, the graded band l / (growth h) (integral of 1/h(d)^2 with h = h0 + growth d),
+    times a constant fitted on the demo cases and 4 per nested split. Good to a factor of about 2 (our own
+    estimate)."""
+    n = part.area() / size_max ** 2
+    for f in part.features:
+        h = sizes[f.name]
+        length = sum(part.segment(ref).length() for ref in f.segments) if f.segments else h
+        n += length / (spec.growth * h) + (math.pi * (size_max / spec.growth) ** 2 / size_max ** 2 if not f.segments else 0)
+    return 6.0 * n * 4 ** spec.refine  # factor measured on the demo cases (estimate / actual 0.7-1.3)
+
+
 def mesh_part(part: PartGeometry, spec: MeshSpec, *, order: int = 2, uniform: bool = False) -> PartMesh:
     """Mesh the part; see the module docstring.
 
@@ -99,6 +113,12 @@ def mesh_part(part: PartGeometry, spec: MeshSpec, *, order: int = 2, uniform: bo
     radii = [f.radius for f in part.features if f.radius > 0]
     smallest = min(radii) / spec.elements_per_radius if radii else size_max / spec.elements_per_radius
     sizes = {f.name: feature_size(f.radius, spec, size_max, smallest) for f in part.features}
+    estimate = estimated_elements(part, sizes, size_max, spec)
+    if estimate > spec.max_elements:
+        raise MeshError(f"the mesh would have about {estimate:.3g} elements, more than the limit "
+                        f"{spec.max_elements:.3g} (smallest element {min(sizes.values(), default=size_max):.3g}, "
+                        f"largest {size_max:.3g}); use fewer elements_per_radius, a larger mesh.size, or raise "
+                        "mesh.max_elements if the machine has the memory")
 
     with gmsh_session() as gmsh:
         gmsh.model.add("part")
@@ -222,10 +242,39 @@ def mesh_part(part: PartGeometry, spec: MeshSpec, *, order: int = 2, uniform: bo
     if abs(area - expected_area) > (1e-5 if order == 2 else 2e-2) * abs(expected_area):
         raise MeshError(f"mesh area {area:.9g} differs from the part's area {expected_area:.9g} by "
                         f"{abs(area - expected_area) / abs(expected_area):.2%}")
-    return PartMesh(mesh=mesh, mapping=iso_mapping(mesh), boundary_facets=bfac, facet_loop=bloop, facet_segment=bseg,
+    warnings = ligament_warnings(part, sizes, size_max)
+    return PartMesh(mesh=mesh, mapping=iso_mapping(mesh), boundary_facets=bfac, warnings=tuple(warnings), facet_loop=bloop, facet_segment=bseg,
                     feature_sizes=sizes, size_max=size_max, n_elements=mesh.t.shape[1],
                     n_nodes=mesh.doflocs.shape[1], min_quality=minq, area=area,
                     seconds=time.perf_counter() - t0, gmsh_log=log)
+
+
+#: a ligament narrower than this many local elements is resolved too coarsely to trust (our own rule)
+LIGAMENT_ELEMENTS = 4
+
+
+def ligament_warnings(part: PartGeometry, sizes: dict[str, float], size_max: float) -> list[str]:
+    """Warn where a cut-out comes closer to the outline or another cut-out than a few elements."""
+    from shapely.geometry import LineString
+
+    def ring(loop):
+        pts = loop.polygon_points(math.radians(1.0))
+        return LineString(np.hstack([pts, pts[:, :1]]).T)
+
+    rings = [ring(lp) for lp in part.loops]
+    size_of = {f.name: sizes.get(f.name, size_max) for f in part.features}
+    out = []
+    for i in range(1, len(part.loops)):
+        hi = size_of.get(f"cut-out '{part.loops[i].name}'", size_max)
+        for j in range(i):
+            gap = rings[i].distance(rings[j])
+            h = hi if j == 0 else min(hi, size_of.get(f"cut-out '{part.loops[j].name}'", size_max))
+            if gap < LIGAMENT_ELEMENTS * h:
+                other = "the outline" if j == 0 else f"cut-out '{part.loops[j].name}'"
+                out.append(f"the ligament between cut-out '{part.loops[i].name}' and {other} is {gap:.3g} wide, "
+                           f"only {gap / h:.1f} elements across; refine it (smaller mesh.size or more "
+                           "elements_per_radius) before trusting stresses there")
+    return out
 
 
 def _find_point(gmsh, xy) -> int:

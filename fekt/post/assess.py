@@ -99,9 +99,11 @@ def assess(samples: BoundarySamples, part: PartGeometry, pmesh: PartMesh, sol: E
             if chk is not None and equilibrium == "fail" and p.feature is not None and not p.feature.singular:
                 require_equilibrium(chk, key)  # feature sections are refined: failure means a real fault
             elif chk is not None and not chk.ok:
+                why = ("passes through a singular corner, where the stress cannot be integrated accurately"
+                       if p.feature is not None and p.feature.singular else "crosses coarse elements")
                 warnings.append(
-                    f"the cut through the hot spot at ({xy[0]:.4g}, {xy[1]:.4g}) crosses coarse elements: FE "
-                    f"section forces differ from statics by {max(chk.error_N, chk.error_M):.2%}; its Kt is rough")
+                    f"the cut through the hot spot at ({xy[0]:.4g}, {xy[1]:.4g}) {why}: FE section forces differ "
+                    f"from statics by {max(chk.error_N, chk.error_M):.2%}; its Kt is rough")
             eq_errors[key] = max(chk.error_N, chk.error_M) if chk else float("nan")
         y_hot = float(xy @ e)
         nom = nominal_stress(sec, loads, y_hot)
@@ -123,6 +125,17 @@ def assess(samples: BoundarySamples, part: PartGeometry, pmesh: PartMesh, sol: E
     spots = [d for d in spots if d["feature_kind"] != "edge" or d["found_as"] == "overall maximum"
              or d["kt_net"] is None or d["kt_net"] >= 1 + EDGE_MARGIN]
     spots.sort(key=lambda d: -d["peak"])
+    for d in spots:
+        if d["feature_kind"] == "edge":
+            continue
+        s_hot = d["x"] * axis[0] + d["y"] * axis[1]
+        for end in loads.ends:
+            if abs(s_hot - end.section.s) < end.section.width:
+                warnings.append(
+                    f"hot spot at ({d['x']:.4g}, {d['y']:.4g}) on {d['feature']} lies {abs(s_hot - end.section.s):.3g} "
+                    f"from the loaded end '{end.name}', less than its width {end.section.width:.3g}: the idealised "
+                    "end load (Saint-Venant) still disturbs the stress there; lengthen the part in the model")
+                break
     hot = tuple(HotSpot(rank=i + 1, **d) for i, d in enumerate(spots))
     free = np.array([(int(li), int(si)) not in loaded for li, si in zip(samples.loop, samples.segment)])
     ic = int(np.where(free)[0][np.argmin(samples.s2[free])])
