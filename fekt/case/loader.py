@@ -212,8 +212,16 @@ def _flag(value: object, item: str) -> bool:
     return value
 
 
+#: no dimension, load or modulus in any supported unit system comes near this (our own guard against
+#: values that overflow later, e.g. a radius of 1e300)
+MAX_MAGNITUDE = 1e15
+
+
 def _number(value: object, params: Mapping[str, float], item: str) -> float:
-    return evaluate(value, params, item=item)
+    x = evaluate(value, params, item=item)
+    if abs(x) > MAX_MAGNITUDE:
+        raise CaseError(f"{x:.6g} is out of range (|value| must be below {MAX_MAGNITUDE:g})", item=item)
+    return x
 
 
 def _positive(raw: object, params: Mapping[str, float], item: str, *, zero_ok: bool = False) -> float:

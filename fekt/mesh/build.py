@@ -17,7 +17,7 @@ from skfem import MeshTri1, MeshTri2
 from skfem.mapping import MappingIsoparametric
 
 from ..case.schema import MeshSpec
-from ..errors import MeshError
+from ..errors import InputError, MeshError
 from ..geometry.model import ARC, ELLIPSE, LINE, PartGeometry
 from .session import gmsh_session
 
@@ -32,8 +32,16 @@ class ScaledToleranceMapping(MappingIsoparametric):
     """
 
     def invF(self, x, tind=None, newton_max_iters=50, newton_tol=1e-10):
-        tol = newton_tol * max(1, x.shape[-1] if x.ndim == 3 else 1)
-        return super().invF(x, tind=tind, newton_max_iters=newton_max_iters, newton_tol=tol)
+        n = max(1, x.shape[-1] if x.ndim == 3 else 1)
+        # tiny elements far from the origin need a looser absolute step; 1e-6 in reference
+        # coordinates still moves a sample point by a millionth of an element
+        for tol in (newton_tol, 1e-8, 1e-6):
+            try:
+                return super().invF(x, tind=tind, newton_max_iters=newton_max_iters, newton_tol=tol * n)
+            except Exception as exc:  # skfem raises a plain Exception when Newton does not converge
+                last = exc
+        raise MeshError(f"cannot map points into the curved elements ({last}); the mesh has elements far "
+                        "smaller than the part (check very small radii)")
 
 
 def iso_mapping(mesh):
@@ -121,132 +129,146 @@ def mesh_part(part: PartGeometry, spec: MeshSpec, *, order: int = 2, uniform: bo
                         "mesh.max_elements if the machine has the memory")
 
     with gmsh_session() as gmsh:
-        gmsh.model.add("part")
-        occ = gmsh.model.occ
-        curve_ref: dict[int, tuple[int, int]] = {}
-        bx0, by0, bx1, by1 = part.bounding_box()
-        snap = 1e-9 * max(bx1 - bx0, by1 - by0)
-        loop_tags = []
-        seg_curves: dict[tuple[int, int], list[int]] = {}
-        for li, loop in enumerate(part.loops):
-            point_tags: list[tuple[float, float, int]] = []
-
-            def pt(xy) -> int:
-                # segment ends computed along different routes (a fillet's tangent point, a vertex)
-                # may differ by round-off: one gmsh point per location, or the loop would not close
-                x, y = float(xy[0]), float(xy[1])
-                for px, py, tag in point_tags:
-                    if abs(px - x) <= snap and abs(py - y) <= snap:
-                        return tag
-                tag = occ.addPoint(x, y, 0.0)
-                point_tags.append((x, y, tag))
-                return tag
-
-            curves = []
-            centres = []
-            # OCC wants every wire counter-clockwise (a clockwise hole wire adds its area instead of
-            # removing it; checked on gmsh 4.15.2), so cut-outs are drawn in reverse
-            seq = list(enumerate(loop.segments))
-            if loop.kind == "cutout":
-                seq = [(si, seg.reversed()) for si, seg in reversed(seq)]
-            for si, seg in seq:
-                tags = []
-                if seg.kind == LINE:
-                    tags.append(occ.addLine(pt(seg.start), pt(seg.end)))
-                elif seg.kind == ARC:
-                    n = max(1, math.ceil(abs(seg.sweep()) / (math.pi / 2) - 1e-9))
-                    ts = np.linspace(0.0, 1.0, n + 1)
-                    xy = seg.point(ts)
-                    xy[:, 0] = seg.start
-                    xy[:, -1] = seg.end
-                    c = occ.addPoint(seg.center[0], seg.center[1], 0.0)
-                    centres.append(c)
-                    for k in range(n):
-                        tags.append(occ.addCircleArc(pt(xy[:, k]), c, pt(xy[:, k + 1])))
-                elif seg.kind == ELLIPSE:
-                    a, b, ang = seg.a, seg.b, seg.angle
-                    if b > a:  # OCC needs the major radius first
-                        a, b, ang = b, a, ang + math.pi / 2
-                    # build axis-aligned, then rotate: the xAxis argument of addEllipse did not
-                    # orient the ellipse here (gmsh 4.15.2; midside nodes landed on the unrotated curve)
-                    tag = occ.addEllipse(seg.center[0], seg.center[1], 0.0, a, b)
-                    if ang % (2 * math.pi):
-                        occ.rotate([(1, tag)], seg.center[0], seg.center[1], 0.0, 0.0, 0.0, 1.0, ang)
-                    tags.append(tag)
-                for t in tags:
-                    curve_ref[t] = (li, si)
-                seg_curves[(li, si)] = tags
-                curves.extend(tags)
-            if centres:
-                occ.remove([(0, c) for c in centres])
-            loop_tags.append(occ.addCurveLoop(curves))
-        surf = occ.addPlaneSurface(loop_tags)
-        occ.synchronize()
-        gmsh.model.addPhysicalGroup(2, [surf], name="domain")
-        expected_area = part.area()
-        occ_area = occ.getMass(2, surf)
-        if abs(occ_area - expected_area) > 1e-6 * abs(expected_area):
-            raise MeshError(f"gmsh built a surface of area {occ_area:.9g}, the part has {expected_area:.9g}; "
-                            "the outline was not transferred faithfully")
-
-        # size fields: one Distance + Threshold per feature, combined with Min
-        fields = []
-        graded_features = () if uniform else part.features
-        growth = spec.growth
-        for f in graded_features:
-            h = sizes[f.name]
-            dist = gmsh.model.mesh.field.add("Distance")
-            if f.segments:
-                ctags = [t for ref in f.segments for t in seg_curves[ref]]
-                length = sum(part.segment(ref).length() for ref in f.segments)
-                gmsh.model.mesh.field.setNumbers(dist, "CurvesList", ctags)
-                # default Sampling (20 per curve) under-resolves long fine curves (pitfalls C2)
-                gmsh.model.mesh.field.setNumber(dist, "Sampling", int(min(max(20, 2 * length / h), 20000)))
-            else:
-                ptag = _find_point(gmsh, f.point)
-                gmsh.model.mesh.field.setNumbers(dist, "PointsList", [ptag])
-            thr = gmsh.model.mesh.field.add("Threshold")
-            gmsh.model.mesh.field.setNumber(thr, "InField", dist)
-            gmsh.model.mesh.field.setNumber(thr, "SizeMin", h)
-            gmsh.model.mesh.field.setNumber(thr, "SizeMax", size_max)
-            dmin = 0.25 * f.radius if f.radius > 0 else 0.0
-            gmsh.model.mesh.field.setNumber(thr, "DistMin", dmin)
-            gmsh.model.mesh.field.setNumber(thr, "DistMax", dmin + max(size_max - h, 0.0) / growth)
-            fields.append(thr)
-        if fields:
-            mn = gmsh.model.mesh.field.add("Min")
-            gmsh.model.mesh.field.setNumbers(mn, "FieldsList", fields)
-            gmsh.model.mesh.field.setAsBackgroundMesh(mn)
-        opt = gmsh.option.setNumber
-        # let the field govern (pitfalls C3); curvature keeps convex arcs round (16 per full turn)
-        opt("Mesh.MeshSizeExtendFromBoundary", 0)
-        opt("Mesh.MeshSizeFromPoints", 0)
-        opt("Mesh.MeshSizeFromCurvature", 16)
-        opt("Mesh.MeshSizeMax", size_max)
-        opt("Mesh.MeshSizeMin", 0.0)
-        opt("Mesh.Algorithm", 6)
-        opt("Mesh.SecondOrderLinear", 0)  # midside nodes on the CAD curves (pitfalls C4)
-        opt("Mesh.HighOrderOptimize", 0)
-        gmsh.model.mesh.generate(2)
-        for _ in range(spec.refine):
-            gmsh.model.mesh.refine()  # nested split; new boundary nodes snap to the curves (pitfalls F2)
-        if order == 2:
-            gmsh.model.mesh.setOrder(2)
-        mesh, bfac, bloop, bseg, minq = _extract(gmsh, curve_ref, order)
-        log = tuple(gmsh.logger.get())
+        try:
+            mesh, bfac, bloop, bseg, minq, log = _build_and_mesh(gmsh, part, spec, sizes, size_max, order, uniform)
+        except (MeshError, InputError):
+            raise
+        except Exception as exc:  # gmsh reports its failures as plain exceptions
+            raise MeshError(f"gmsh could not mesh the part: {exc}; check for very small features next to large "
+                            "ones, or change the mesh settings") from exc
 
     if order == 2:
         _check_on_curves(mesh, bfac, bloop, bseg, part)
+    expected_area = part.area()
     area = _mesh_area(mesh)
     # straight-sided baseline meshes lose the sagitta of every arc: a looser check for them
     if abs(area - expected_area) > (1e-5 if order == 2 else 2e-2) * abs(expected_area):
         raise MeshError(f"mesh area {area:.9g} differs from the part's area {expected_area:.9g} by "
                         f"{abs(area - expected_area) / abs(expected_area):.2%}")
     warnings = ligament_warnings(part, sizes, size_max)
-    return PartMesh(mesh=mesh, mapping=iso_mapping(mesh), boundary_facets=bfac, warnings=tuple(warnings), facet_loop=bloop, facet_segment=bseg,
-                    feature_sizes=sizes, size_max=size_max, n_elements=mesh.t.shape[1],
+    return PartMesh(mesh=mesh, mapping=iso_mapping(mesh), boundary_facets=bfac, facet_loop=bloop,
+                    facet_segment=bseg, warnings=tuple(warnings), feature_sizes=sizes, size_max=size_max, n_elements=mesh.t.shape[1],
                     n_nodes=mesh.doflocs.shape[1], min_quality=minq, area=area,
                     seconds=time.perf_counter() - t0, gmsh_log=log)
+
+
+def _build_and_mesh(gmsh, part: PartGeometry, spec: MeshSpec, sizes: dict[str, float], size_max: float,
+                    order: int, uniform: bool):
+    """Build the OCC geometry, size fields and the mesh inside an open gmsh session."""
+    gmsh.model.add("part")
+    occ = gmsh.model.occ
+    curve_ref: dict[int, tuple[int, int]] = {}
+    bx0, by0, bx1, by1 = part.bounding_box()
+    snap = 1e-9 * max(bx1 - bx0, by1 - by0)
+    loop_tags = []
+    seg_curves: dict[tuple[int, int], list[int]] = {}
+    for li, loop in enumerate(part.loops):
+        point_tags: list[tuple[float, float, int]] = []
+
+        def pt(xy) -> int:
+            # segment ends computed along different routes (a fillet's tangent point, a vertex)
+            # may differ by round-off: one gmsh point per location, or the loop would not close
+            x, y = float(xy[0]), float(xy[1])
+            for px, py, tag in point_tags:
+                if abs(px - x) <= snap and abs(py - y) <= snap:
+                    return tag
+            tag = occ.addPoint(x, y, 0.0)
+            point_tags.append((x, y, tag))
+            return tag
+
+        curves = []
+        centres = []
+        # OCC wants every wire counter-clockwise (a clockwise hole wire adds its area instead of
+        # removing it; checked on gmsh 4.15.2), so cut-outs are drawn in reverse
+        seq = list(enumerate(loop.segments))
+        if loop.kind == "cutout":
+            seq = [(si, seg.reversed()) for si, seg in reversed(seq)]
+        for si, seg in seq:
+            tags = []
+            if seg.kind == LINE:
+                tags.append(occ.addLine(pt(seg.start), pt(seg.end)))
+            elif seg.kind == ARC:
+                n = max(1, math.ceil(abs(seg.sweep()) / (math.pi / 2) - 1e-9))
+                ts = np.linspace(0.0, 1.0, n + 1)
+                xy = seg.point(ts)
+                xy[:, 0] = seg.start
+                xy[:, -1] = seg.end
+                c = occ.addPoint(seg.center[0], seg.center[1], 0.0)
+                centres.append(c)
+                for k in range(n):
+                    tags.append(occ.addCircleArc(pt(xy[:, k]), c, pt(xy[:, k + 1])))
+            elif seg.kind == ELLIPSE:
+                a, b, ang = seg.a, seg.b, seg.angle
+                if b > a:  # OCC needs the major radius first
+                    a, b, ang = b, a, ang + math.pi / 2
+                # build axis-aligned, then rotate: the xAxis argument of addEllipse did not
+                # orient the ellipse here (gmsh 4.15.2; midside nodes landed on the unrotated curve)
+                tag = occ.addEllipse(seg.center[0], seg.center[1], 0.0, a, b)
+                if ang % (2 * math.pi):
+                    occ.rotate([(1, tag)], seg.center[0], seg.center[1], 0.0, 0.0, 0.0, 1.0, ang)
+                tags.append(tag)
+            for t in tags:
+                curve_ref[t] = (li, si)
+            seg_curves[(li, si)] = tags
+            curves.extend(tags)
+        if centres:
+            occ.remove([(0, c) for c in centres])
+        loop_tags.append(occ.addCurveLoop(curves))
+    surf = occ.addPlaneSurface(loop_tags)
+    occ.synchronize()
+    gmsh.model.addPhysicalGroup(2, [surf], name="domain")
+    expected_area = part.area()
+    occ_area = occ.getMass(2, surf)
+    if abs(occ_area - expected_area) > 1e-6 * abs(expected_area):
+        raise MeshError(f"gmsh built a surface of area {occ_area:.9g}, the part has {expected_area:.9g}; "
+                        "the outline was not transferred faithfully")
+
+    # size fields: one Distance + Threshold per feature, combined with Min
+    fields = []
+    graded_features = () if uniform else part.features
+    growth = spec.growth
+    for f in graded_features:
+        h = sizes[f.name]
+        dist = gmsh.model.mesh.field.add("Distance")
+        if f.segments:
+            ctags = [t for ref in f.segments for t in seg_curves[ref]]
+            length = sum(part.segment(ref).length() for ref in f.segments)
+            gmsh.model.mesh.field.setNumbers(dist, "CurvesList", ctags)
+            # default Sampling (20 per curve) under-resolves long fine curves (pitfalls C2)
+            gmsh.model.mesh.field.setNumber(dist, "Sampling", int(min(max(20, 2 * length / h), 20000)))
+        else:
+            ptag = _find_point(gmsh, f.point)
+            gmsh.model.mesh.field.setNumbers(dist, "PointsList", [ptag])
+        thr = gmsh.model.mesh.field.add("Threshold")
+        gmsh.model.mesh.field.setNumber(thr, "InField", dist)
+        gmsh.model.mesh.field.setNumber(thr, "SizeMin", h)
+        gmsh.model.mesh.field.setNumber(thr, "SizeMax", size_max)
+        dmin = 0.25 * f.radius if f.radius > 0 else 0.0
+        gmsh.model.mesh.field.setNumber(thr, "DistMin", dmin)
+        gmsh.model.mesh.field.setNumber(thr, "DistMax", dmin + max(size_max - h, 0.0) / growth)
+        fields.append(thr)
+    if fields:
+        mn = gmsh.model.mesh.field.add("Min")
+        gmsh.model.mesh.field.setNumbers(mn, "FieldsList", fields)
+        gmsh.model.mesh.field.setAsBackgroundMesh(mn)
+    opt = gmsh.option.setNumber
+    # let the field govern (pitfalls C3); curvature keeps convex arcs round (16 per full turn)
+    opt("Mesh.MeshSizeExtendFromBoundary", 0)
+    opt("Mesh.MeshSizeFromPoints", 0)
+    opt("Mesh.MeshSizeFromCurvature", 16)
+    opt("Mesh.MeshSizeMax", size_max)
+    opt("Mesh.MeshSizeMin", 0.0)
+    opt("Mesh.Algorithm", 6)
+    opt("Mesh.SecondOrderLinear", 0)  # midside nodes on the CAD curves (pitfalls C4)
+    opt("Mesh.HighOrderOptimize", 0)
+    gmsh.model.mesh.generate(2)
+    for _ in range(spec.refine):
+        gmsh.model.mesh.refine()  # nested split; new boundary nodes snap to the curves (pitfalls F2)
+    if order == 2:
+        gmsh.model.mesh.setOrder(2)
+    mesh, bfac, bloop, bseg, minq = _extract(gmsh, curve_ref, order)
+    log = tuple(gmsh.logger.get())
+    return mesh, bfac, bloop, bseg, minq, log
 
 
 #: a ligament narrower than this many local elements is resolved too coarsely to trust (our own rule)
