@@ -99,7 +99,7 @@ def test_overlapping_loops_are_rejected(tmp_path):
 
     (tmp_path / "c.toml").write_text(_case_text(_dxf(tmp_path, build), force=1.0))
     case = load_case(tmp_path / "c.toml")
-    with pytest.raises(InputError, match="crossing"):
+    with pytest.raises(InputError, match="crosses"):
         build_part(case.part)
 
 

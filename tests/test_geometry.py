@@ -86,7 +86,7 @@ BAD = {
     "cut-out outside": (PartSpec(outline=rect_outline(10, 10), cutouts=(CutoutSpec("h", "circle", (20, 5), diameter=2),)),
                         "outside"),
     "cut-out crossing the outline": (PartSpec(outline=rect_outline(10, 10),
-                                              cutouts=(CutoutSpec("h", "circle", (9.5, 5), diameter=2),)), "crossing"),
+                                              cutouts=(CutoutSpec("h", "circle", (9.5, 5), diameter=2),)), "crosses"),
     "cut-outs overlapping": (PartSpec(outline=rect_outline(20, 10), cutouts=(
         CutoutSpec("a", "circle", (8, 5), diameter=4), CutoutSpec("b", "circle", (10, 5), diameter=4))), "overlaps"),
     "fillet too big": (PartSpec(outline=(Vertex(0, 0), Vertex(10, 0, fillet=8), Vertex(10, 10, fillet=8), Vertex(0, 10))),
@@ -94,7 +94,7 @@ BAD = {
     "zero diameter": (PartSpec(outline=rect_outline(10, 10), cutouts=(CutoutSpec("h", "circle", (5, 5), diameter=0),)),
                       "must be positive"),
     "notch deeper than the section": (PartSpec(outline=rect_outline(100, 10), notches=(NotchSpec("n", "top", 50, 12, 1),)),
-                                      "not a simple closed curve"),
+                                      "reaches through"),
     "notch on a missing edge": (PartSpec(outline=rect_outline(100, 10), notches=(NotchSpec("n", "side", 50, 2, 1),)),
                                 "does not exist"),
     "notch wider than its edge": (PartSpec(outline=rect_outline(100, 10), notches=(NotchSpec("n", "top", 1, 2, 3),)),

@@ -62,6 +62,7 @@ def insert_notches(vertices: list[Vertex], notches: tuple[NotchSpec, ...]) -> li
         by_edge.setdefault(n.edge, []).append(n)
     out: list[Vertex] = []
     nv = len(vertices)
+    body = Polygon([(v.x, v.y) for v in vertices]) if any(by_edge.values()) else None
     for i, v in enumerate(vertices):
         mine = by_edge.get(v.edge or "", []) if v.edge else []
         if not mine:
@@ -82,6 +83,7 @@ def insert_notches(vertices: list[Vertex], notches: tuple[NotchSpec, ...]) -> li
         out.append(replace(v))
         last_end = start_trim
         for n in sorted(mine, key=lambda s: s.position):
+            _check_depth(n, p0 + n.position * d, n_in, body)
             pts = _notch_vertices(n, p0, d, n_in, v.edge)
             half = n.position - pts[0][0], pts[-1][0] - n.position
             lo, hi = n.position - half[0], n.position + half[1]
@@ -93,6 +95,25 @@ def insert_notches(vertices: list[Vertex], notches: tuple[NotchSpec, ...]) -> li
             last_end = hi
             out.extend(vert for _, vert in pts)
     return out
+
+
+def _check_depth(n: NotchSpec, mouth: np.ndarray, n_in: np.ndarray, body: Polygon | None) -> None:
+    """A notch must end inside the material: compare its depth with the material below its mouth."""
+    if body is None or not body.is_valid:
+        return  # the outline itself is invalid: validate() reports that
+    from shapely.geometry import LineString
+
+    far = mouth + n_in * 4 * math.sqrt(body.area + 1.0) * 10
+    probe = LineString([tuple(mouth + n_in * 1e-9), tuple(far)])
+    inside = probe.intersection(body)
+    if inside.is_empty:
+        return
+    first = inside.geoms[0] if hasattr(inside, "geoms") else inside
+    available = first.length
+    if n.depth >= available * (1 - 1e-12):
+        raise GeometryError(f"depth {n.depth:.6g} reaches through the part: there is only {available:.6g} of "
+                            "material below the notch mouth", item=f"notch '{n.name}'.depth",
+                            hint="notches deeper than the section cut the part in two")
 
 
 def _fillet_tangent_length(vertices: list[Vertex], i: int) -> float:
@@ -318,8 +339,8 @@ def validate(loops: list[Loop]) -> None:
             raise GeometryError(f"the cut-out is not a simple closed curve: {explain_validity(poly)}",
                                 item=item)
         if not outer.contains(poly):
-            where = "outside" if not outer.intersects(poly) else "crossing"
-            raise GeometryError(f"lies {where} the outline", item=item,
+            where = "lies outside the outline" if not outer.intersects(poly) else "crosses the outline"
+            raise GeometryError(where, item=item,
                                 hint="cut-outs must lie strictly inside the part")
         gap = outer.exterior.distance(poly.exterior)
         if gap <= 1e-6 * scale:
@@ -328,6 +349,19 @@ def validate(loops: list[Loop]) -> None:
             if poly.intersects(other) or poly.distance(other) <= 1e-6 * scale:
                 raise GeometryError(f"touches or overlaps cut-out '{other_name}'", item=item)
         holes.append((loop.name, poly))
+
+
+def _check_segment_lengths(loops: list[Loop]) -> None:
+    """Curves shorter than round-off (a fillet on nearly collinear edges, an arc between coincident
+    points) cannot be meshed; say which item made them."""
+    pts = loops[0].polygon_points()
+    scale = float(max(np.ptp(pts[0]), np.ptp(pts[1]), 1e-300))
+    for loop in loops:
+        for seg in loop.segments:
+            if seg.length() <= 1e-9 * scale:
+                raise GeometryError(f"a {seg.kind} of length {seg.length():.3g} is too short to mesh "
+                                    f"(part size {scale:.3g})", item=seg.origin or loop.name,
+                                    hint="remove the tiny fillet or the nearly coincident vertices")
 
 
 def build_part(spec: PartSpec) -> PartGeometry:
@@ -352,6 +386,7 @@ def build_part(spec: PartSpec) -> PartGeometry:
             raise GeometryError(f"the name '{n}' is used by {names.count(n)} cut-outs", item="cutouts",
                                 hint="give each cut-out its own name")
     loops = [outline] + [cutout_loop(c, k) for k, c in enumerate(spec.cutouts)]
+    _check_segment_lengths(loops)
     validate(loops)
     features, warnings = detect_features(loops, notch_names={n.name for n in spec.notches})
     warnings += proportion_warnings(loops, features)
