@@ -77,12 +77,10 @@ _MESH_KEYS = ("elements_per_radius", "size", "growth", "max_elements")
 
 # --- public API ----------------------------------------------------------------------------------
 
-def load_case(path: str | Path) -> Case:
-    """Read and check the case file at ``path``; ``Case.source`` is the path as given."""
-    file = Path(path)
+def _read_text(file: Path) -> str:
     try:
         # utf-8-sig: editors on some systems prepend a byte-order mark that TOML does not allow.
-        text = file.read_text(encoding="utf-8-sig")
+        return file.read_text(encoding="utf-8-sig")
     except FileNotFoundError:
         raise CaseError("no such case file", item=str(file)) from None
     except UnicodeDecodeError as exc:
@@ -90,24 +88,49 @@ def load_case(path: str | Path) -> Case:
                         hint="save the case file as UTF-8") from None
     except OSError as exc:
         raise CaseError(f"cannot read the case file: {exc.strerror or exc}", item=str(file)) from None
-    return parse_case(text, source=str(file))
 
 
-def parse_case(text: str, source: str = "<string>") -> Case:
-    """Parse case-file text; ``source`` names it in messages and becomes ``Case.source``."""
+def _toml(text: str, source: str) -> dict:
     try:
-        data = tomllib.loads(text)
+        return tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         # tomllib's message already ends with "(at line L, column C)", which is what the user needs.
         raise CaseError(f"TOML syntax error: {exc}", item=source,
                         hint="see docs/case-format.md for the file format") from None
-    return case_from_dict(data, source)
 
 
-def case_from_dict(data: dict, source: str) -> Case:
-    """Check an already parsed case table (as :func:`tomllib.loads` returns it) and build the Case."""
+def read_case_table(path: str | Path) -> dict:
+    """The parsed TOML table of a case file (sweeps rebuild the case from it with other parameters)."""
+    return _toml(_read_text(Path(path)), str(path))
+
+
+def load_case(path: str | Path) -> Case:
+    """Read and check the case file at ``path``; ``Case.source`` is the path as given."""
+    return case_from_dict(read_case_table(path), str(Path(path)))
+
+
+def parse_case(text: str, source: str = "<string>") -> Case:
+    """Parse case-file text; ``source`` names it in messages and becomes ``Case.source``."""
+    return case_from_dict(_toml(text, source), source)
+
+
+def case_from_dict(data: dict, source: str, overrides: Mapping[str, float] | None = None) -> Case:
+    """Check an already parsed case table (as :func:`tomllib.loads` returns it) and build the Case.
+
+    ``overrides`` replaces the values of named parameters (sweeps and goal-seeking vary them)."""
     root = _table(data, source or "<case>")
     _check_keys(root, _TOP_KEYS, "")
+    if overrides:
+        raw_params = dict(_table(root.get("parameters", {}), "parameters"))
+        for name, value in overrides.items():
+            if name not in raw_params:
+                known = list(raw_params)
+                close = difflib.get_close_matches(name, known, n=1)
+                raise CaseError(f"the case has no parameter named '{name}'", item=f"parameters.{name}",
+                                hint=f"did you mean '{close[0]}'?" if close else
+                                f"parameters in this case: {', '.join(known) or 'none'}")
+            raw_params[name] = float(value)
+        root = {**root, "parameters": raw_params}
     # Sections are read in the order they usually appear in a file, so the first error reported
     # is the first one the reader meets.
     name, description, demo = _case_info(root.get("case", {}), source)

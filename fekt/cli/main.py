@@ -20,7 +20,7 @@ class UsageError(InputError):
 
 
 def build_parser() -> argparse.ArgumentParser:
-    from . import charts_cmd, converge_cmd, solve_cmd
+    from . import charts_cmd, converge_cmd, solve_cmd, sweep_cmd
 
     p = argparse.ArgumentParser(prog="fekt", description="Elastic stress concentration factors (Kt) of flat "
                                 "notched parts by finite elements.")
@@ -29,6 +29,7 @@ def build_parser() -> argparse.ArgumentParser:
     solve_cmd.add_parser(sub)
     converge_cmd.add_parser(sub)
     charts_cmd.add_parser(sub)
+    sweep_cmd.add_parser(sub)
     return p
 
 

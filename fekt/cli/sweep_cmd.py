@@ -1,0 +1,135 @@
+"""``fekt sweep CASE --vary NAME=START:STOP:COUNT`` and ``fekt target CASE --vary NAME --kt VALUE``."""
+
+from __future__ import annotations
+
+import json
+import os
+import sys
+
+
+def add_parser(sub) -> None:
+    p = sub.add_parser("sweep", help="Kt over ranges of the case's named parameters (your own chart)")
+    p.add_argument("case", help="case file (TOML) with a [parameters] table")
+    p.add_argument("--vary", action="append", required=True, metavar="NAME=START:STOP:COUNT",
+                   help="a parameter and its values (START:STOP:COUNT or v1,v2,...); repeat for a grid")
+    p.add_argument("--out", metavar="DIR", help="results folder (default: <case>-sweep next to the case)")
+    p.add_argument("--resume", action="store_true", help="keep the points already in DIR and compute the rest")
+    p.add_argument("--force", action="store_true", help="start over in an existing DIR")
+    p.add_argument("--executor", choices=("pool", "serial", "dask"), default="pool",
+                   help="where points run: local processes (default), one process, or a Dask cluster")
+    p.add_argument("--workers", type=int, help="local processes (default: all cores)")
+    p.add_argument("--scheduler", metavar="ADDRESS", help="Dask scheduler address (implies --executor dask)")
+    p.add_argument("--no-estimate", action="store_true", help="skip the per-point uncertainty (faster)")
+    p.add_argument("--basis", choices=("net", "gross"), default="net", help="which Kt to report and fit")
+    p.add_argument("--fit", metavar="FORM", help="fit the results: poly:N, power, or handbook (two parameters)")
+    p.add_argument("--json", action="store_true", help="print the results as JSON")
+    p.set_defaults(run=run_sweep)
+
+    t = sub.add_parser("target", help="find the parameter value that gives a target Kt")
+    t.add_argument("case", help="case file (TOML) with a [parameters] table")
+    t.add_argument("--vary", required=True, metavar="NAME", help="the parameter to adjust")
+    t.add_argument("--kt", type=float, required=True, help="the Kt wanted")
+    t.add_argument("--bounds", metavar="LO:HI", help="search range (default: half to one and a half times the "
+                   "case's value)")
+    t.add_argument("--basis", choices=("net", "gross"), default="net", help="Kt on the net or gross section")
+    t.add_argument("--json", action="store_true", help="print the answer as JSON")
+    t.set_defaults(run=run_target)
+
+
+def _progress(total: int, desc: str, quiet: bool):
+    if quiet or not sys.stderr.isatty():
+        return None
+    from tqdm import tqdm
+
+    return tqdm(total=total, desc=desc, unit="point", file=sys.stderr)
+
+
+def run_sweep(args) -> int:
+    from ..case.loader import case_from_dict, read_case_table
+    from ..report.files import write_json, write_text
+    from ..report.sweep import format_sweep, write_sweep_plot
+    from ..studies.sweep import SweepFiles, fit_results, grid, parse_vary, run_points
+    from .main import UsageError
+
+    if not os.path.isfile(args.case):
+        raise UsageError(f"case file '{args.case}' not found")
+    table = read_case_table(args.case)
+    varies = [parse_vary(v) for v in args.vary]
+    names = [n for n, _ in varies]
+    # check the names and the unvaried case once, before any work
+    case_from_dict(table, args.case, overrides={n: v[0] for n, v in varies})
+    points = grid(varies)
+    out = args.out or os.path.splitext(args.case)[0] + "-sweep"
+    if os.path.exists(out) and os.listdir(out) and not (args.resume or args.force):
+        raise UsageError(f"output folder '{out}' already exists and is not empty",
+                         hint="pass --resume to finish that sweep, --force to start over, or choose another --out")
+    os.makedirs(out, exist_ok=True)
+    files = SweepFiles(out, names)
+    if args.force and os.path.exists(files.jsonl):
+        os.remove(files.jsonl)
+    done = files.finished(points) if args.resume else {}
+    executor = "dask" if args.scheduler else args.executor
+    bar = _progress(len(points) - len(done), "sweep", args.json)
+    results = list(done.values())
+
+    def on_result(r):
+        files.append(r)
+        results.append(r)
+        if bar is not None:
+            bar.update(1)
+
+    try:
+        run_points(table, args.case, points, estimate=not args.no_estimate, executor=executor,
+                   workers=args.workers, scheduler=args.scheduler, skip=done.keys(), on_result=on_result)
+    finally:
+        if bar is not None:
+            bar.close()
+        files.write_csv(results)
+    results.sort(key=lambda r: r.index)
+    fit = fit_results(results, names, args.fit, args.basis) if args.fit else None
+    text = format_sweep(results, names, args.basis, fit)
+    data = {"case": args.case, "varied": names, "basis": args.basis, "points": [r.to_json() for r in results],
+            "resumed_points": len(done), "fit": None if fit is None else fit.__dict__}
+    write_json(os.path.join(out, "sweep.json"), data)
+    write_text(os.path.join(out, "report.txt"), text + "\n")
+    write_sweep_plot(results, names, args.basis, os.path.join(out, "sweep.png"),
+                     f"{os.path.basename(args.case)}: Kt over {', '.join(names)}", fit)
+    print(json.dumps(data, indent=2) if args.json else text)
+    if not args.json:
+        print(f"wrote {out}/points.jsonl, sweep.csv, sweep.json, report.txt, sweep.png"
+              + (f" ({len(done)} points reused)" if done else ""), file=sys.stderr)
+    return 0
+
+
+def run_target(args) -> int:
+    from ..case.loader import case_from_dict, read_case_table
+    from ..report.sweep import format_target
+    from ..studies.sweep import goal_seek
+    from .main import UsageError
+
+    if not os.path.isfile(args.case):
+        raise UsageError(f"case file '{args.case}' not found")
+    table = read_case_table(args.case)
+    case = case_from_dict(table, args.case)
+    params = dict(case.parameters)
+    if args.vary not in params:
+        raise UsageError(f"the case has no parameter named '{args.vary}'",
+                         hint=f"parameters: {', '.join(params) or 'none'}")
+    if args.bounds:
+        try:
+            lo, hi = (float(v) for v in args.bounds.split(":"))
+        except ValueError:
+            raise UsageError(f"--bounds '{args.bounds}' must be LO:HI") from None
+    else:
+        lo, hi = 0.5 * params[args.vary], 1.5 * params[args.vary]
+    if lo == hi:
+        raise UsageError("--bounds must span a range")
+    quiet = args.json or not sys.stderr.isatty()
+
+    def progress(x, kt):
+        if not quiet:
+            print(f"  {args.vary} = {x:.6g}: Kt_{args.basis} = {kt:.5g}", file=sys.stderr)
+
+    t = goal_seek(table, args.case, args.vary, args.kt, (lo, hi), basis=args.basis, progress=progress)
+    print(json.dumps(t.__dict__, indent=2) if args.json else format_target(t))
+    return 0
