@@ -11,6 +11,9 @@ import tempfile
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 sys.path.insert(0, os.path.join(HERE, "..", "tests"))
+sys.path.insert(0, HERE)
+
+from _publish import publish  # noqa: E402
 
 from bad_inputs import BAD_CASES  # noqa: E402
 
@@ -31,10 +34,7 @@ def main_table() -> None:
                 code = main(["solve", path, "--no-estimate"])
             msg = err.getvalue().strip().replace(tmp + os.sep, "").replace("|", "\\|").replace("\n", " ")
             rows.append(f"| {name} | `{msg}` | {code} |")
-    text = "\n".join(rows) + "\n"
-    print(text)
-    with open(os.path.join(HERE, "..", "docs", "bad-inputs.md"), "w", encoding="utf-8") as fh:
-        fh.write(text)
+    publish(rows, os.path.join(HERE, "..", "docs", "bad-inputs.md"))
 
 
 if __name__ == "__main__":

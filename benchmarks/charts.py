@@ -7,6 +7,7 @@ Fits recalled from memory are marked; nothing is tuned to agree (see docs/known-
 from __future__ import annotations
 
 import os
+import sys
 import time
 from collections import defaultdict
 
@@ -14,6 +15,9 @@ from fekt.api import solve
 from fekt.charts.grid import case_for, default_grid
 
 HERE = os.path.dirname(os.path.abspath(__file__))
+sys.path.insert(0, HERE)
+
+from _publish import publish  # noqa: E402
 
 
 def run_grid():
@@ -46,10 +50,7 @@ def main() -> None:
         lines.append(f"| {p.family} | {p.load} | {p.label} | {c['fit']}{star} | {c['chart_kt']:.4f} | {c['fe_kt']:.4f} | "
                      f"+-{band:.4f} | {c['difference_pct']:+.2f} | {c['band_pct']:.0f} | {inside}{cov} | {sec:.1f} |")
         groups[(p.family, p.load)].append((p, c))
-    text = "\n".join(lines) + "\n"
-    print(text)
-    with open(os.path.join(HERE, "CHARTS.md"), "w", encoding="utf-8") as fh:
-        fh.write(text)
+    publish(lines, os.path.join(HERE, "CHARTS.md"))
     _plots(groups)
 
 

@@ -5,6 +5,7 @@ from __future__ import annotations
 
 import dataclasses
 import os
+import sys
 import time
 
 from fekt.case.loader import load_case
@@ -12,6 +13,9 @@ from fekt.pipeline import run
 from fekt.studies.convergence import converge
 
 HERE = os.path.dirname(os.path.abspath(__file__))
+sys.path.insert(0, HERE)
+
+from _publish import publish  # noqa: E402
 
 
 def main() -> None:
@@ -32,10 +36,7 @@ def main() -> None:
     lines += ["", "Hot spots of the finest level:", ""]
     for s in rows[0][2].spots:
         lines.append(f"- {s.rank}. {s.key}: {s.message}")
-    text = "\n".join(lines) + "\n"
-    print(text)
-    with open(os.path.join(HERE, "CONVERGENCE.md"), "w", encoding="utf-8") as fh:
-        fh.write(text)
+    publish(lines, os.path.join(HERE, "CONVERGENCE.md"))
 
 
 if __name__ == "__main__":

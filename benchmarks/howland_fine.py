@@ -8,6 +8,9 @@ import sys
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 sys.path.insert(0, os.path.join(HERE, "..", "tests"))
+sys.path.insert(0, HERE)
+
+from _publish import publish  # noqa: E402
 
 from conftest import strip_case  # noqa: E402
 
@@ -32,10 +35,7 @@ def main() -> None:
         ext = s.extrapolated * g if s.extrapolated is not None else float("nan")
         band = s.band * g if s.band is not None else float("nan")
         lines.append(f"| {x} | {ref:.2f} | {fine:.4f} | {ext:.4f} | +-{band:.4f} | {100 * (fine - ref) / ref:+.2f} % |")
-    text = "\n".join(lines) + "\n"
-    print(text)
-    with open(os.path.join(HERE, "HOWLAND.md"), "w", encoding="utf-8") as fh:
-        fh.write(text)
+    publish(lines, os.path.join(HERE, "HOWLAND.md"))
 
 
 if __name__ == "__main__":

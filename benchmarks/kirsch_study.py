@@ -6,29 +6,20 @@ from __future__ import annotations
 import os
 import sys
 
-import numpy as np
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 sys.path.insert(0, os.path.join(HERE, "..", "tests"))
+sys.path.insert(0, HERE)
 
-from conftest import kirsch_solution  # noqa: E402
+from _publish import publish  # noqa: E402
 
-from fekt.case.schema import MeshSpec  # noqa: E402
-from fekt.post.hotspots import local_scatter  # noqa: E402
-from fekt.studies.convergence import Level, Sample, study_spots  # noqa: E402
+from conftest import kirsch_level  # noqa: E402
 
-
-def level(epr: float, h: float) -> Level:
-    _, pm, sol, b = kirsch_solution(elements_per_radius=epr)
-    m = np.where(b.loop == 1)[0]
-    i = int(m[np.argmax(b.s1[m])])
-    s = Sample("hole", float(b.xy[0, i]), float(abs(b.xy[1, i])), float(b.s1[i]), kind="hole",
-               scatter=local_scatter(b, i))
-    return Level(MeshSpec(elements_per_radius=epr), pm.n_elements, sol.ndofs, h, 0.0, (s,))
+from fekt.studies.convergence import study_spots  # noqa: E402
 
 
 def main() -> None:
-    lv = [level(8, 8.0), level(16, 4.0), level(32, 2.0), level(64, 1.0)]
+    lv = [kirsch_level(8, 8.0), kirsch_level(16, 4.0), kirsch_level(32, 2.0), kirsch_level(64, 1.0)]
     lines = ["# Kirsch: uncertainty bands against the true error (written by benchmarks/kirsch_study.py)", "",
              "| study | meshes (el./radius) | Kt fine | true error | band | band / error | Richardson value | message |",
              "|---|---|---|---|---|---|---|---|"]
@@ -40,10 +31,7 @@ def main() -> None:
         meshes = ", ".join(f"{x.spec.elements_per_radius:g}" for x in ls)
         lines.append(f"| {name} | {meshes} | {s.values[0]:.6f} | {err:.2e} | {s.band:.2e} | {s.band / err:.1f} | "
                      f"{ext} | {s.message} |")
-    text = "\n".join(lines) + "\n"
-    print(text)
-    with open(os.path.join(HERE, "KIRSCH_STUDY.md"), "w", encoding="utf-8") as fh:
-        fh.write(text)
+    publish(lines, os.path.join(HERE, "KIRSCH_STUDY.md"))
 
 
 if __name__ == "__main__":

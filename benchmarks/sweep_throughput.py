@@ -5,6 +5,7 @@ uncertainty). Also writes the demo sweep's plot and a fitted formula. Writes ben
 from __future__ import annotations
 
 import os
+import sys
 import time
 
 from fekt.case.loader import read_case_table
@@ -12,6 +13,9 @@ from fekt.report.sweep import format_fit, write_sweep_plot
 from fekt.studies.sweep import fit_results, grid, parse_vary, run_points
 
 HERE = os.path.dirname(os.path.abspath(__file__))
+sys.path.insert(0, HERE)
+
+from _publish import publish  # noqa: E402
 CASE = os.path.join(HERE, "..", "cases", "demo_link.toml")
 
 
@@ -50,10 +54,7 @@ def main() -> None:
         "\n", "\n    "), ""]
     write_sweep_plot(results, ["rf", "dh"], "net", os.path.join(HERE, "sweep_demo_link.png"),
                      "demo link (demo data): largest Kt_net over rf and dh")
-    text = "\n".join(lines) + "\n"
-    print(text)
-    with open(os.path.join(HERE, "SWEEP.md"), "w", encoding="utf-8") as fh:
-        fh.write(text)
+    publish(lines, os.path.join(HERE, "SWEEP.md"))
 
 
 if __name__ == "__main__":

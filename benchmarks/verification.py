@@ -16,6 +16,9 @@ import numpy as np
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 sys.path.insert(0, os.path.join(HERE, "..", "tests"))
+sys.path.insert(0, HERE)
+
+from _publish import publish  # noqa: E402
 
 from conftest import rect_outline, strip_case  # noqa: E402
 
@@ -117,10 +120,7 @@ def main() -> None:
                      f"{total:.2f} | {fe['kt']:.4f} | {ref:.4g} ({source}) | {err:+.3f} | {nv['dofs']} | "
                      f"{nv['kt']:.4f} | {nerr:+.2f} |")
     lines += ["", f"Machine: {os.cpu_count()} cores; numpy {np.__version__}.", ""]
-    text = "\n".join(lines)
-    print(text)
-    with open(os.path.join(HERE, "RESULTS.md"), "w", encoding="utf-8") as fh:
-        fh.write(text)
+    publish(lines, os.path.join(HERE, "RESULTS.md"))
 
 
 if __name__ == "__main__":

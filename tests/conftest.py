@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import numpy as np
 import pytest
 
 from fekt.case.schema import Case, CutoutSpec, LoadSpec, Material, MeshSpec, PartSpec, Vertex
@@ -40,6 +41,19 @@ def kirsch_solution(elements_per_radius=None, refine=0, half_width=10.0, E=1.0, 
     sol = solve_elasticity(pm, E, nu, model, [TractionLoad(outer, kirsch_traction())])
     b = boundary_samples(sol, pm, part)
     return part, pm, sol, b
+
+
+def kirsch_level(epr: float, h: float):
+    """One level of a refinement study of the Kirsch case: its peak as a tracked hot-spot sample."""
+    from fekt.post.hotspots import local_scatter
+    from fekt.studies.convergence import Level, Sample
+
+    _, pm, sol, b = kirsch_solution(elements_per_radius=epr)
+    m = np.where(b.loop == 1)[0]
+    i = int(m[np.argmax(b.s1[m])])
+    s = Sample("hole", float(b.xy[0, i]), float(abs(b.xy[1, i])), float(b.s1[i]), kind="hole",
+               scatter=local_scatter(b, i))
+    return Level(MeshSpec(elements_per_radius=epr), pm.n_elements, sol.ndofs, h, 0.0, (s,))
 
 
 @pytest.fixture(scope="session")

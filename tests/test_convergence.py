@@ -6,32 +6,21 @@ import dataclasses
 import json
 import os
 
-import numpy as np
 import pytest
 
-from conftest import kirsch_solution, strip_case
+from conftest import kirsch_level, strip_case
 from fekt.case.loader import load_case
 from fekt.case.schema import MeshSpec
 from fekt.cli.main import main
 from fekt.pipeline import run
-from fekt.post.hotspots import local_scatter
 from fekt.studies.convergence import Level, Sample, converge, ladder, study_spots, two_grid_uncertainty
 
 ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
 
 
-def _kirsch_level(epr: float, h: float) -> Level:
-    _, pm, sol, b = kirsch_solution(elements_per_radius=epr)
-    m = np.where(b.loop == 1)[0]
-    i = int(m[np.argmax(b.s1[m])])
-    s = Sample("hole", float(b.xy[0, i]), float(abs(b.xy[1, i])), float(b.s1[i]), kind="hole",
-               scatter=local_scatter(b, i))
-    return Level(MeshSpec(elements_per_radius=epr), pm.n_elements, sol.ndofs, h, 0.0, (s,))
-
-
 @pytest.fixture(scope="module")
 def kirsch_levels():
-    return [_kirsch_level(8, 4.0), _kirsch_level(16, 2.0), _kirsch_level(32, 1.0)]
+    return [kirsch_level(8, 4.0), kirsch_level(16, 2.0), kirsch_level(32, 1.0)]
 
 
 def test_kirsch_three_level_band_contains_exact_and_is_tight(kirsch_levels):
