@@ -9,7 +9,7 @@ import dataclasses
 import hashlib
 import math
 import time
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 
 import numpy as np
 
@@ -66,7 +66,6 @@ class Solved:
     loads: LoadState
     samples: BoundarySamples
     result: Result
-    extras: dict = field(default_factory=dict)
 
 
 def _jsonable(x):
@@ -121,8 +120,7 @@ def run(case: Case, *, equilibrium: str = "fail") -> Solved:
         # the mesh stage usually saw the cause (a thin ligament): say so with the failure
         raise SolveError(f"{exc}; the mesh stage warned: " + "; ".join(pmesh.warnings)) from exc
     t4 = time.perf_counter()
-    warnings = list(part.warnings)
-    warnings += list(pmesh.warnings) + _mesh_warnings(pmesh) + list(assessed.warnings)
+    warnings = list(part.warnings) + list(pmesh.warnings) + list(assessed.warnings)
     result = Result(
         case_name=case.name, source=case.source, demo=case.demo,
         units={"length": case.units.length, "force": case.units.force, "stress": case.units.stress,
@@ -139,8 +137,8 @@ def run(case: Case, *, equilibrium: str = "fail") -> Solved:
               "area": pmesh.area, "solver": sol.solver},
         timings={"geometry_s": t1 - t0, "mesh_s": t2 - t1, "assemble_s": sol.seconds_assemble,
                  "solve_s": sol.seconds_solve, "post_s": t4 - t3, "total_s": t4 - t0},
-        hot_spots=assessed.hot_spots, most_compressive=assessed.most_compressive, warnings=tuple(warnings), notes=loads.notes,
-        caution=CAUTION,
+        hot_spots=assessed.hot_spots, most_compressive=assessed.most_compressive, warnings=tuple(warnings),
+        notes=loads.notes, caution=CAUTION,
         provenance={"versions": _versions(), "case_sha256_16": case_hash(case),
                     "max_reaction_over_load": float(np.max(np.abs(sol.reactions)) / max(sol.load_norm, 1e-300))},
     )
@@ -148,12 +146,5 @@ def run(case: Case, *, equilibrium: str = "fail") -> Solved:
 
 
 def solve(case: Case) -> Result:
-    """Public entry: solve a case and return its :class:`Result`."""
+    """The pipeline's result alone (``fekt.solve`` adds uncertainty bands and chart values)."""
     return run(case).result
-
-
-def _mesh_warnings(pmesh: PartMesh) -> list[str]:
-    out = []
-    if pmesh.min_quality < 0.2:
-        out.append(f"poorly shaped elements (min scaled Jacobian {pmesh.min_quality:.2f})")
-    return out

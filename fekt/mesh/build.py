@@ -146,6 +146,8 @@ def mesh_part(part: PartGeometry, spec: MeshSpec, *, order: int = 2, uniform: bo
         raise MeshError(f"mesh area {area:.9g} differs from the part's area {expected_area:.9g} by "
                         f"{abs(area - expected_area) / abs(expected_area):.2%}")
     warnings = ligament_warnings(part, sizes, size_max)
+    if minq < 0.2:  # our own threshold; minSJ > 0 is already enforced
+        warnings.append(f"poorly shaped elements (min scaled Jacobian {minq:.2f}); results near them are less accurate")
     return PartMesh(mesh=mesh, mapping=iso_mapping(mesh), boundary_facets=bfac, facet_loop=bloop,
                     facet_segment=bseg, warnings=tuple(warnings), feature_sizes=sizes, size_max=size_max, n_elements=mesh.t.shape[1],
                     n_nodes=mesh.doflocs.shape[1], min_quality=minq, area=area,
