@@ -32,9 +32,9 @@ def main() -> None:
         s = max((s for s in study.spots if s.key == "cut-out 'hole'"), key=lambda s: s.values[0])
         g = s.gross_over_net
         fine = s.values[0] * g
-        ext = s.extrapolated * g if s.extrapolated is not None else float("nan")
-        band = s.band * g if s.band is not None else float("nan")
-        lines.append(f"| {x} | {ref:.2f} | {fine:.4f} | {ext:.4f} | +-{band:.4f} | {100 * (fine - ref) / ref:+.2f} % |")
+        ext = f"{s.extrapolated * g:.4f}" if s.extrapolated is not None else f"- ({s.verdict})"
+        band = f"+-{s.band * g:.4f}" if s.band is not None else "-"
+        lines.append(f"| {x} | {ref:.2f} | {fine:.4f} | {ext} | {band} | {100 * (fine - ref) / ref:+.2f} % |")
     publish(lines, os.path.join(HERE, "HOWLAND.md"))
 
 
