@@ -532,6 +532,25 @@ _HOLE_X_NOTE = (
 )
 
 
+def _net_hole_fit(name: str, fn: Callable[[float], float], rng: ParamRange, source: str, note: str) -> ChartFit:
+    """One of the net-section fits for the strip with a central hole (they share everything else)."""
+    return ChartFit(
+        key=f"strip-hole/tension/{name}",
+        family="strip_hole", load="tension", basis="net",
+        nominal="P/(h (W-d))",
+        parameters=("d", "W"),
+        ranges=(rng,),
+        band=0.03,
+        confidence="high",
+        source=source,
+        from_memory=True,
+        note=note,
+        formula=lambda d: fn(_x_hole(d)),
+        ratio_fn=_ratios_strip_hole,
+        check_fn=_check_strip_hole,
+    )
+
+
 def _build_fits() -> tuple[ChartFit, ...]:
     hole_range_fit = ParamRange(
         "d/W", 0.0, 1.0,
@@ -562,57 +581,24 @@ def _build_fits() -> tuple[ChartFit, ...]:
             ratio_fn=_ratios_strip_hole,
             check_fn=_check_strip_hole,
         ),
-        ChartFit(
-            key="strip-hole/tension/pilkey",
-            family="strip_hole", load="tension", basis="net",
-            nominal="P/(h (W-d))",
-            parameters=("d", "W"),
-            ranges=(hole_range_fit,),
-            band=0.03,
-            confidence="high",
-            source=(
-                "W. D. Pilkey & D. F. Pilkey (2008), Peterson's Stress Concentration Factors 3rd ed., "
-                "Chart 4.1 fit Ktn = 2 + 0.284(1-x) - 0.600(1-x)^2 + 1.32(1-x)^3 (from memory)"
-            ),
-            from_memory=True,
-            note="within 0.3% of Howland for d/W <= 0.5; " + _HOLE_X_NOTE,
-            formula=lambda d: hole_pilkey_ktn(_x_hole(d)),
-            ratio_fn=_ratios_strip_hole,
-            check_fn=_check_strip_hole,
+        _net_hole_fit(
+            "pilkey", hole_pilkey_ktn, hole_range_fit,
+            "W. D. Pilkey & D. F. Pilkey (2008), Peterson's Stress Concentration Factors 3rd ed., "
+            "Chart 4.1 fit Ktn = 2 + 0.284(1-x) - 0.600(1-x)^2 + 1.32(1-x)^3 (from memory)",
+            "within 0.3% of Howland for d/W <= 0.5; " + _HOLE_X_NOTE,
         ),
-        ChartFit(
-            key="strip-hole/tension/roark",
-            family="strip_hole", load="tension", basis="net",
-            nominal="P/(h (W-d))",
-            parameters=("d", "W"),
-            ranges=(hole_range_fit,),
-            band=0.03,
-            confidence="high",
-            source=(
-                "W. C. Young, R. G. Budynas & A. M. Sadegh (2012), Roark's Formulas for Stress and "
-                "Strain 8th ed., Table 17.1, central hole in tension: "
-                "Ktn = 3.00 - 3.13x + 3.66x^2 - 1.53x^3 (from memory)"
-            ),
-            from_memory=True,
-            note="within 0.3% of Howland for d/W <= 0.5; " + _HOLE_X_NOTE,
-            formula=lambda d: hole_roark_ktn(_x_hole(d)),
-            ratio_fn=_ratios_strip_hole,
-            check_fn=_check_strip_hole,
+        _net_hole_fit(
+            "roark", hole_roark_ktn, hole_range_fit,
+            "W. C. Young, R. G. Budynas & A. M. Sadegh (2012), Roark's Formulas for Stress and "
+            "Strain 8th ed., Table 17.1, central hole in tension: "
+            "Ktn = 3.00 - 3.13x + 3.66x^2 - 1.53x^3 (from memory)",
+            "within 0.3% of Howland for d/W <= 0.5; " + _HOLE_X_NOTE,
         ),
-        ChartFit(
-            key="strip-hole/tension/heywood",
-            family="strip_hole", load="tension", basis="net",
-            nominal="P/(h (W-d))",
-            parameters=("d", "W"),
-            ranges=(ParamRange("d/W", 0.0, 1.0, "stated for all d/W; " + _HOLE_X_NOTE, hi_inclusive=False),),
-            band=0.03,
-            confidence="high",
-            source="R. B. Heywood (1952), Designing by Photoelasticity: Ktn = 2 + (1-x)^3 (from memory)",
-            from_memory=True,
-            note="up to 1.6% below Howland for d/W <= 0.5",
-            formula=lambda d: hole_heywood_ktn(_x_hole(d)),
-            ratio_fn=_ratios_strip_hole,
-            check_fn=_check_strip_hole,
+        _net_hole_fit(
+            "heywood", hole_heywood_ktn,
+            ParamRange("d/W", 0.0, 1.0, "stated for all d/W; " + _HOLE_X_NOTE, hi_inclusive=False),
+            "R. B. Heywood (1952), Designing by Photoelasticity: Ktn = 2 + (1-x)^3 (from memory)",
+            "up to 1.6% below Howland for d/W <= 0.5",
         ),
         ChartFit(
             key="opposite-u/tension/pilkey",
