@@ -13,6 +13,7 @@ from collections import defaultdict
 
 from fekt.api import solve
 from fekt.charts.grid import case_for, default_grid
+from fekt.records import to_jsonable
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 sys.path.insert(0, HERE)
@@ -25,9 +26,15 @@ def run_grid():
     for p in default_grid():
         t0 = time.perf_counter()
         r = solve(case_for(p), estimate=True)
-        chk = r.charts["family_check"]
-        unc = r.uncertainty["hot_spots"].get(str(chk.get("hot_spot", 1)), {}) if r.uncertainty else {}
-        band = unc.get("kt_net_band") if chk.get("basis") == "net" else unc.get("kt_gross_band")
+        check = r.family_check
+        if check.peak_rank is None:
+            chk = {"verdict": "no chart", "reason": check.no_chart.detail or check.no_chart.reason}
+            band = None
+        else:
+            peak = r.peak(check.peak_rank)
+            chk = to_jsonable(peak.chart)
+            b = peak.band
+            band = None if b is None else (b.kt_net if chk["basis"] == "net" else b.kt_gross)
         rows.append((p, chk, band, time.perf_counter() - t0))
     return rows
 

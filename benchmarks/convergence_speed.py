@@ -8,8 +8,9 @@ import os
 import sys
 import time
 
-from fekt.case.loader import load_case
+from fekt.api import load_case
 from fekt.pipeline import run
+from fekt.report.convergence import spot_message
 from fekt.studies.convergence import converge
 
 HERE = os.path.dirname(os.path.abspath(__file__))
@@ -33,9 +34,9 @@ def main() -> None:
     for jobs, t, study in rows:
         dofs = ", ".join(str(int(lv.dofs)) for lv in study.levels)
         lines.append(f"| {jobs} | {t:.2f} | {dofs} | {t / rows[0][1]:.2f} |")
-    lines += ["", "Hot spots of the finest level:", ""]
+    lines += ["", "Stress peaks of the finest level:", ""]
     for s in rows[0][2].spots:
-        lines.append(f"- {s.rank}. {s.key}: {s.message}")
+        lines.append(f"- {s.rank}. {s.key}: {spot_message(s)}")
     publish(lines, os.path.join(HERE, "CONVERGENCE.md"))
 
 

@@ -15,6 +15,7 @@ from _publish import publish  # noqa: E402
 
 from conftest import kirsch_level  # noqa: E402
 
+from fekt.report.convergence import spot_message  # noqa: E402
 from fekt.studies.convergence import study_spots  # noqa: E402
 
 
@@ -30,7 +31,7 @@ def main() -> None:
         ext = "-" if s.extrapolated is None else f"{s.extrapolated:.6f}"
         meshes = ", ".join(f"{x.spec.elements_per_radius:g}" for x in ls)
         lines.append(f"| {name} | {meshes} | {s.values[0]:.6f} | {err:.2e} | {s.band:.2e} | {s.band / err:.1f} | "
-                     f"{ext} | {s.message} |")
+                     f"{ext} | {spot_message(s)} |")
     publish(lines, os.path.join(HERE, "KIRSCH_STUDY.md"))
 
 

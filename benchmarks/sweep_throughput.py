@@ -10,7 +10,8 @@ import time
 
 from fekt.case.loader import read_case_table
 from fekt.report.sweep import format_fit, write_sweep_plot
-from fekt.studies.sweep import fit_results, grid, parse_vary, run_points
+from fekt.cli.sweep_cmd import parse_vary
+from fekt.studies.sweep import fit_results, grid, run_points
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 sys.path.insert(0, HERE)

@@ -20,18 +20,20 @@ sys.path.insert(0, HERE)
 
 from _publish import publish  # noqa: E402
 
-from conftest import rect_outline, strip_case  # noqa: E402
+from conftest import rect_outline, strip_case, traction_component  # noqa: E402
 
-from fekt.case.schema import Case, CutoutSpec, LoadSpec, MeshSpec, PartSpec  # noqa: E402
+from fekt.case.schema import Case, CutoutSpec, MeshSpec, PartSpec  # noqa: E402
 from fekt.exact import inglis_kt, kirsch_traction  # noqa: E402
 from fekt.geometry.build import build_part  # noqa: E402
 from fekt.mesh.build import mesh_part  # noqa: E402
 from fekt.pipeline import run  # noqa: E402
+from fekt.loads.ends import EndsSpec  # noqa: E402
+from fekt.models import REGISTRY as MODELS  # noqa: E402
+from fekt.pipeline import apply_loads  # noqa: E402
 from fekt.post.fields import boundary_samples  # noqa: E402
-from fekt.solver.elasticity import TractionLoad, solve_elasticity  # noqa: E402
-from fekt.solver.loads import build_loads, traction_loads  # noqa: E402
+from fekt.solver.linear import solve  # noqa: E402
 
-# Howland (1930), gross Kt, from memory (references 1.4)
+# Howland (1930), gross Kt, from memory (docs/references.md)
 HOWLAND = {0.1: 3.03, 0.2: 3.14, 0.3: 3.36, 0.4: 3.74, 0.5: 4.32}
 
 
@@ -45,8 +47,8 @@ def kirsch_run(uniform_dofs: int | None = None):
     else:
         pm = _uniform_mesh(part, uniform_dofs)
     t1 = time.perf_counter()
-    sol = solve_elasticity(pm, 1.0, 0.3, "plane_stress",
-                           [TractionLoad(pm.facets_of([(0, i) for i in range(4)]), kirsch_traction())])
+    sol = solve(pm, MODELS["plane_stress"], 1.0, 0.3,
+                [traction_component(("bottom", "right", "top", "left"), kirsch_traction())])
     t2 = time.perf_counter()
     b = boundary_samples(sol, pm, part)
     kt = float(b.s1[b.loop == 1].max())
@@ -72,21 +74,21 @@ def case_run(case: Case, uniform_dofs: int | None = None):
         t0 = time.perf_counter()
         r = run(case).result
         t = r.timings
-        return dict(dofs=r.mesh["dofs"], mesh=t["mesh_s"], solve=t["assemble_s"] + t["solve_s"],
-                    post=t["post_s"], kt=r.hot_spots[0].kt_gross, total=time.perf_counter() - t0)
+        return dict(dofs=r.mesh.dofs, mesh=t.mesh_s, solve=t.assemble_s + t.solve_s,
+                    post=t.post_s, kt=r.peaks[0].kt_gross, total=time.perf_counter() - t0)
     part = build_part(case.part)
-    loads = build_loads(part, case.load, case.part.thickness)
+    loads = apply_loads(case, part)
     t0 = time.perf_counter()
     pm = _uniform_mesh(part, uniform_dofs)
     t1 = time.perf_counter()
-    sol = solve_elasticity(pm, case.material.E, case.material.nu, case.part.model,
-                           traction_loads(loads, pm.facets_of))
+    sol = solve(pm, MODELS[case.part.model], case.material.E, case.material.nu, loads.components)
     t2 = time.perf_counter()
     b = boundary_samples(sol, pm, part)
     peak = float(b.s1[b.loop == 1].max())
     sec = loads.ends[0].section
+    force = sum(c.magnitude for c in loads.components if c.quantity == "force")
     t3 = time.perf_counter()
-    return dict(dofs=sol.ndofs, mesh=t1 - t0, solve=t2 - t1, post=t3 - t2, kt=peak / (loads.force / sec.area))
+    return dict(dofs=sol.ndofs, mesh=t1 - t0, solve=t2 - t1, post=t3 - t2, kt=peak / (force / sec.area))
 
 
 def main() -> None:
@@ -97,7 +99,7 @@ def main() -> None:
                       "Howland (1930) table, from memory"))
     a, b = 2.0, 1.0
     ell = Case("inglis", PartSpec(outline=rect_outline(320.0, 80.0), cutouts=(
-        CutoutSpec("e", "ellipse", (160.0, 40.0), a=b, b=a),), thickness=1.0), LoadSpec(("left", "right"), force=80.0))
+        CutoutSpec("e", "ellipse", (160.0, 40.0), a=b, b=a),), thickness=1.0), (EndsSpec(("left", "right"), force=80.0),))
     cases.append(("Inglis ellipse a/b = 2, 2a/W = 0.05 (Kt gross)", ell, inglis_kt(a, b),
                   "Inglis (1913), infinite plate"))
     run(strip_case())  # warm-up: imports and first-call costs out of the table

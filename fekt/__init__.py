@@ -4,12 +4,12 @@ Public API::
 
     import fekt
     case = fekt.load_case("cases/demo_link.toml")
-    result = fekt.solve(case)        # hot spots, net sections, Kt with uncertainty bands
+    result = fekt.solve(case)        # stress peaks, net sections, Kt with uncertainty bands
     result.to_dict()                 # the same content as ``fekt solve --json``
     study = fekt.converge(case, levels=3)   # refinement study (``fekt converge``)
 """
 
-__version__ = "0.1.0"
+from .version import __version__
 __all__ = ["load_case", "parse_case", "solve", "converge", "__version__"]
 
 

@@ -2,16 +2,38 @@
 
 from __future__ import annotations
 
-from .case.loader import load_case, parse_case
+from collections.abc import Mapping
+from pathlib import Path
+
+from .case import loader
+from .case.loader import read_case_table
 from .case.schema import Case
-from .pipeline import Result
+from .pipeline import Solved
+from .records import Result
+from .registry import CATALOGUE
 from .studies.convergence import Study, converge
 from .studies.evaluate import solve_full
 
 
+def load_case(path: str | Path) -> Case:
+    """Read and check a case file (every mistake is reported before any work starts)."""
+    return loader.load_case(path, CATALOGUE)
+
+
+def parse_case(text: str, source: str = "<string>") -> Case:
+    """Read and check case-file text; ``source`` names it in messages."""
+    return loader.parse_case(text, CATALOGUE, source)
+
+
+def case_from_dict(data: dict, source: str, overrides: Mapping[str, float] | None = None) -> Case:
+    """Check an already parsed case table; ``overrides`` replaces named parameters."""
+    return loader.case_from_dict(data, source, overrides, catalogue=CATALOGUE)
+
+
 def solve(case: Case, *, estimate: bool = True, charts: bool = True) -> Result:
-    """Solve a case: ranked hot spots with Kt, uncertainty bands and chart values (as ``fekt solve``)."""
+    """Solve a case: ranked stress peaks with Kt, uncertainty bands and chart values (as ``fekt solve``)."""
     return solve_full(case, estimate=estimate, charts=charts).result
 
 
-__all__ = ["load_case", "parse_case", "solve", "solve_full", "converge", "Case", "Result", "Study"]
+__all__ = ["load_case", "parse_case", "case_from_dict", "read_case_table", "solve", "solve_full", "converge",
+           "Case", "Result", "Solved", "Study"]

@@ -1,8 +1,8 @@
 """Exact plane-elasticity solutions used to verify fekt (tests and benchmarks).
 
 Kirsch (1898): circular hole of radius a in an infinite plate under remote uniaxial stress S along
-x. Cartesian form of the field as in shared/notes/verification-references.md 1.1 (derived there
-from the polar form in Sadd, Elasticity, Example 8-7), with q = a^2/r^2 and theta from the x-axis:
+x. Cartesian form of the field (derived from the polar form in Sadd, Elasticity, Example 8-7; see
+docs/references.md), with q = a^2/r^2 and theta from the x-axis:
 
     sxx = S [1 - q (3/2 cos2t + cos4t) + 3/2 q^2 cos4t]
     syy = S [  - q (1/2 cos2t - cos4t) - 3/2 q^2 cos4t]
@@ -10,7 +10,7 @@ from the polar form in Sadd, Elasticity, Example 8-7), with q = a^2/r^2 and thet
 
 Inglis (1913) / Kolosov: elliptical hole, semi-axes a (x) and b (y), remote S at angle alpha from x:
 edge hoop stress sigma/S = [1 - m^2 + 2m cos2a - 2cos2(eta - a)] / [1 - 2m cos2eta + m^2],
-m = (a-b)/(a+b); peak 1 + 2a/b for alpha = 90 degrees (references 1.3, derived there).
+m = (a-b)/(a+b); peak 1 + 2a/b for alpha = 90 degrees (docs/references.md).
 """
 
 from __future__ import annotations
@@ -55,11 +55,15 @@ def inglis_kt(a: float, b: float) -> float:
     return 1.0 + 2.0 * a / b
 
 
-def kirsch_displacement_radial(r, theta, a: float, S: float, E: float, nu: float, model: str):
-    """Radial displacement u_r of the Kirsch field (references 1.1, form as in Barber / Sadd, from
-    memory; strains verified against Hooke's law there). kappa = (3-nu)/(1+nu) plane stress,
-    3-4nu plane strain; mu = E/(2(1+nu))."""
+def kolosov_kappa(nu: float, plane_strain: bool) -> float:
+    """Kolosov's constant: (3 - nu)/(1 + nu) in plane stress, 3 - 4 nu in plane strain."""
+    return 3 - 4 * nu if plane_strain else (3 - nu) / (1 + nu)
+
+
+def kirsch_displacement_radial(r, theta, a: float, S: float, E: float, nu: float, plane_strain: bool = False):
+    """Radial displacement u_r of the Kirsch field (form as in Barber / Sadd, from memory; its strains
+    agree with Hooke's law for the stresses above, docs/references.md). mu = E/(2(1+nu))."""
     mu = E / (2 * (1 + nu))
-    kappa = (3 - nu) / (1 + nu) if model == "plane_stress" else 3 - 4 * nu
+    kappa = kolosov_kappa(nu, plane_strain)
     return S / (8 * mu * r) * ((kappa - 1) * r ** 2 + 2 * a ** 2
                                + 2 * (r ** 2 + (kappa + 1) * a ** 2 - a ** 4 / r ** 2) * np.cos(2 * theta))

@@ -1,4 +1,4 @@
-"""One case through every stage: geometry -> mesh -> solve -> hot spots, net sections, Kt.
+"""One case through every stage: geometry -> loads -> mesh -> solve -> stress peaks, net sections, Kt.
 
 No numerics of its own: it wires the stages, times them and records provenance.
 """
@@ -7,52 +7,26 @@ from __future__ import annotations
 
 import dataclasses
 import hashlib
-import math
 import time
 from dataclasses import dataclass
 
-import numpy as np
-
 from .case.schema import Case
-from .errors import SolveError
+from .errors import GeometryError, SolveError
 from .geometry.build import build_part
 from .geometry.model import PartGeometry
+from .kinds import EquilibriumMode
+from .loads.base import Applied
 from .mesh.build import PartMesh, mesh_part
+from .models import REGISTRY as MODELS
+from .post.evaluate import evaluate_peaks
 from .post.fields import BoundarySamples, boundary_samples
-from .post.assess import HotSpot, assess
-from .solver.elasticity import ElasticSolution, check_reactions, solve_elasticity
-from .solver.loads import LoadState, build_loads, traction_loads
+from .records import (ComponentFacts, EndFacts, LoadFacts, MeshFacts, Provenance, Result, Timings,
+                      UnitsRecord)
+from .solver.linear import Solution, check_reactions, reaction_ratio, solve
 
 CAUTION = ("Linear-elastic, 2D idealisation of the part as described; peak stresses assume small strains "
            "and no yielding. Check the numbers against the applicable design codes and licensed "
            "engineering practice before sizing a part with them.")
-
-
-@dataclass(frozen=True)
-class Result:
-    """Everything ``fekt solve`` reports; ``to_dict`` gives the JSON content."""
-
-    case_name: str
-    source: str
-    demo: bool
-    units: dict
-    model: str
-    thickness: float
-    material: dict
-    load: dict
-    mesh: dict
-    timings: dict
-    hot_spots: tuple[HotSpot, ...]
-    most_compressive: dict
-    warnings: tuple[str, ...]
-    notes: tuple[str, ...]
-    caution: str
-    provenance: dict
-    uncertainty: dict | None = None
-    charts: dict | None = None
-
-    def to_dict(self) -> dict:
-        return _jsonable(dataclasses.asdict(self))
 
 
 @dataclass(frozen=True)
@@ -62,89 +36,88 @@ class Solved:
     case: Case
     part: PartGeometry
     pmesh: PartMesh
-    solution: ElasticSolution
-    loads: LoadState
+    solution: Solution
+    applied: Applied
     samples: BoundarySamples
     result: Result
 
 
-def _jsonable(x):
-    if isinstance(x, dict):
-        return {str(k): _jsonable(v) for k, v in x.items()}
-    if isinstance(x, (list, tuple)):
-        return [_jsonable(v) for v in x]
-    if isinstance(x, (np.floating, float)):
-        v = float(x)
-        return v if math.isfinite(v) else None
-    if isinstance(x, np.integer):
-        return int(x)
-    return x
-
-
 def _versions() -> dict:
     import gmsh
+    import numpy
     import scipy
     import skfem
 
-    from . import __version__
+    from .version import __version__
 
     return {"fekt": __version__, "gmsh": gmsh.__version__, "scikit-fem": skfem.__version__,
-            "numpy": np.__version__, "scipy": scipy.__version__}
+            "numpy": numpy.__version__, "scipy": scipy.__version__}
 
 
 def case_hash(case: Case) -> str:
     return hashlib.sha256(repr(dataclasses.replace(case, source="")).encode()).hexdigest()[:16]
 
 
-def run(case: Case, *, equilibrium: str = "fail") -> Solved:
-    """Solve one case and return the full state (``.result`` is what the CLI prints).
+def model_of(case: Case):
+    model = MODELS.get(case.part.model)
+    if model is None:
+        raise GeometryError(f"model = '{case.part.model}' must be one of {', '.join(MODELS)}", item="part.model")
+    return model
 
-    ``equilibrium``: "fail" raises when a feature's net section misses statics by more than 0.5 %;
-    "warn" records it as a warning (coarse levels of a convergence study); "off" skips the check."""
+
+def apply_loads(case: Case, part: PartGeometry) -> Applied:
+    """The case's load on the built part (one load per case in this version)."""
+    model = model_of(case)
+    if len(case.loads) != 1:
+        raise GeometryError(f"the case has {len(case.loads)} loads; give exactly one [load]", item="load")
+    return case.loads[0].apply(part, model, case.part.thickness)
+
+
+def run(case: Case, *, equilibrium: EquilibriumMode = EquilibriumMode.FAIL) -> Solved:
+    """Solve one case and return the full state (``.result`` is what the CLI prints; no bands, no chart).
+
+    ``equilibrium``: FAIL raises when a feature's net section misses statics by more than 0.5 %;
+    WARN records it as a warning (coarse levels of a convergence study); OFF skips the check."""
+    equilibrium = EquilibriumMode(equilibrium)
     t0 = time.perf_counter()
+    model = model_of(case)
     part = build_part(case.part)
-    loads = build_loads(part, case.load, case.part.thickness)
+    applied = apply_loads(case, part)
     t1 = time.perf_counter()
     pmesh = mesh_part(part, case.mesh)
     t2 = time.perf_counter()
-    sol = solve_elasticity(pmesh, case.material.E, case.material.nu, case.part.model,
-                           traction_loads(loads, pmesh.facets_of))
+    sol = solve(pmesh, model, case.material.E, case.material.nu, applied.components)
     check_reactions(sol)
     t3 = time.perf_counter()
     samples = boundary_samples(sol, pmesh, part)
     try:
-        assessed = assess(samples, part, pmesh, sol, loads, case.part.thickness, equilibrium=equilibrium)
+        found = evaluate_peaks(samples, part, pmesh, sol, applied, case.part.thickness, equilibrium=equilibrium)
     except SolveError as exc:
         if not pmesh.warnings:
             raise
         # the mesh stage usually saw the cause (a thin ligament): say so with the failure
         raise SolveError(f"{exc}; the mesh stage warned: " + "; ".join(pmesh.warnings)) from exc
     t4 = time.perf_counter()
-    warnings = list(part.warnings) + list(pmesh.warnings) + list(assessed.warnings)
+    warnings = list(part.warnings) + list(pmesh.warnings) + list(found.warnings)
+    units = case.units
     result = Result(
         case_name=case.name, source=case.source, demo=case.demo,
-        units={"length": case.units.length, "force": case.units.force, "stress": case.units.stress,
-               "moment": case.units.moment},
-        model=case.part.model, thickness=case.part.thickness,
+        units=UnitsRecord(units.length, units.force, units.stress, units.moment),
+        model=case.part.model, model_label=model.label, thickness=case.part.thickness,
         material={"E": case.material.E, "nu": case.material.nu},
-        load={"axis": list(loads.axis), "force": loads.force,
-              "ends": [{"name": en.name, "width": en.section.width, "moment": en.moment,
-                        "centroid": list(en.section.centroid)} for en in loads.ends]},
-        mesh={"elements": pmesh.n_elements, "nodes": pmesh.n_nodes, "dofs": sol.ndofs,
-              "element": "6-node curved triangle (P2)", "min_scaled_jacobian": pmesh.min_quality,
-              "size_max": pmesh.size_max, "feature_sizes": dict(pmesh.feature_sizes),
-              "elements_per_radius": case.mesh.elements_per_radius, "refine": case.mesh.refine,
-              "area": pmesh.area, "solver": sol.solver},
-        timings={"geometry_s": t1 - t0, "mesh_s": t2 - t1, "assemble_s": sol.seconds_assemble,
-                 "solve_s": sol.seconds_solve, "post_s": t4 - t3, "total_s": t4 - t0},
-        hot_spots=assessed.hot_spots, most_compressive=assessed.most_compressive, warnings=tuple(warnings),
-        notes=loads.notes, caution=CAUTION,
-        provenance={"versions": _versions(), "case_sha256_16": case_hash(case),
-                    "max_reaction_over_load": float(np.max(np.abs(sol.reactions)) / max(sol.load_norm, 1e-300))},
+        load=LoadFacts(
+            axis=applied.axis, force=sum(c.magnitude for c in applied.components if c.quantity == "force"),
+            ends=tuple(EndFacts(en.name, en.section.width, en.moment, en.section.centroid) for en in applied.ends),
+            components=tuple(ComponentFacts(c.name, c.load, c.quantity, c.magnitude) for c in applied.components)),
+        mesh=MeshFacts(elements=pmesh.n_elements, nodes=pmesh.n_nodes, dofs=sol.ndofs, element=model.element_label,
+                       min_scaled_jacobian=pmesh.min_quality, size_max=pmesh.size_max,
+                       feature_sizes=dict(pmesh.feature_sizes), elements_per_radius=case.mesh.elements_per_radius,
+                       refine=case.mesh.refine, area=pmesh.area, solver=sol.solver),
+        timings=Timings(geometry_s=t1 - t0, mesh_s=t2 - t1, assemble_s=sol.seconds_assemble,
+                        solve_s=sol.seconds_solve, post_s=t4 - t3, total_s=t4 - t0),
+        peaks=found.peaks, most_compressive=found.most_compressive, warnings=tuple(warnings),
+        notes=applied.notes, caution=CAUTION,
+        provenance=Provenance(versions=_versions(), case_sha256_16=case_hash(case),
+                              max_reaction_over_load=reaction_ratio(sol)),
     )
-    return Solved(case, part, pmesh, sol, loads, samples, result)
-
-
-def solve(case: Case) -> Result:
-    """The pipeline's result alone (``fekt.solve`` adds uncertainty bands and chart values)."""
-    return run(case).result
+    return Solved(case, part, pmesh, sol, applied, samples, result)

@@ -5,11 +5,22 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from fekt.case.schema import Case, CutoutSpec, LoadSpec, Material, MeshSpec, PartSpec, Vertex
+from fekt.kinds import FeatureKind
+from fekt.case.schema import Case, CutoutSpec, Material, MeshSpec, PartSpec, Vertex
 from fekt.geometry.build import build_part
+from fekt.loads.base import Component, Traction
+from fekt.loads.ends import EndsSpec as LoadSpec
 from fekt.mesh.build import mesh_part
+from fekt.models import REGISTRY as MODELS
+from fekt.models.base import Resultants
 from fekt.post.fields import boundary_samples
-from fekt.solver.elasticity import TractionLoad, solve_elasticity
+from fekt.solver.linear import solve
+
+
+def traction_component(boundaries, fn, name="test traction") -> Component:
+    """A load component of given tractions on named boundaries (statics not needed by the caller)."""
+    return Component(name, name, "stress", 1.0, "in-plane", tuple(Traction(b, fn) for b in boundaries),
+                     lambda section: Resultants())
 
 
 def rect_outline(L: float, W: float, x0: float = 0.0, y0: float = 0.0) -> tuple[Vertex, ...]:
@@ -22,7 +33,7 @@ def strip_case(W=40.0, L=320.0, d=12.0, *, x0=0.0, y0=0.0, force=1000.0, moment=
     cut = (CutoutSpec("hole", "circle", (x0 + L / 2, y0 + W / 2), diameter=d),) if d else ()
     return Case(name="strip", part=PartSpec(outline=rect_outline(L, W, x0, y0), cutouts=cut + tuple(extra_cutouts),
                                             notches=tuple(notches), model=model, thickness=thickness),
-                load=LoadSpec(("left", "right"), force=force, moment=moment),
+                loads=(LoadSpec(("left", "right"), force=force, moment=moment),),
                 material=Material(E=E, nu=nu), mesh=mesh or MeshSpec())
 
 
@@ -37,21 +48,20 @@ def kirsch_solution(elements_per_radius=None, refine=0, half_width=10.0, E=1.0, 
     ms = MeshSpec(refine=refine) if elements_per_radius is None else MeshSpec(
         elements_per_radius=elements_per_radius, refine=refine)
     pm = mesh_part(part, ms)
-    outer = pm.facets_of([(0, i) for i in range(4)])
-    sol = solve_elasticity(pm, E, nu, model, [TractionLoad(outer, kirsch_traction())])
+    sol = solve(pm, MODELS[model], E, nu, [traction_component(("bottom", "right", "top", "left"), kirsch_traction())])
     b = boundary_samples(sol, pm, part)
     return part, pm, sol, b
 
 
 def kirsch_level(epr: float, h: float):
-    """One level of a refinement study of the Kirsch case: its peak as a tracked hot-spot sample."""
-    from fekt.post.hotspots import local_scatter
+    """One level of a refinement study of the Kirsch case: its peak as a tracked stress-peak sample."""
+    from fekt.post.peaks import local_scatter
     from fekt.studies.convergence import Level, Sample
 
     _, pm, sol, b = kirsch_solution(elements_per_radius=epr)
     m = np.where(b.loop == 1)[0]
     i = int(m[np.argmax(b.s1[m])])
-    s = Sample("hole", float(b.xy[0, i]), float(abs(b.xy[1, i])), float(b.s1[i]), kind="hole",
+    s = Sample("hole", float(b.xy[0, i]), float(abs(b.xy[1, i])), float(b.s1[i]), kind=FeatureKind.HOLE,
                scatter=local_scatter(b, i))
     return Level(MeshSpec(elements_per_radius=epr), pm.n_elements, sol.ndofs, h, 0.0, (s,))
 

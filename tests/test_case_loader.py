@@ -14,8 +14,8 @@ from pathlib import Path
 
 import pytest
 
-from fekt.case import load_case, parse_case
-from fekt.case.loader import case_from_dict
+from fekt.api import load_case, parse_case
+from fekt.api import case_from_dict
 from fekt.case.schema import Material, MeshSpec
 from fekt.errors import CaseError
 from fekt.geometry.build import build_part
@@ -145,8 +145,8 @@ def test_full_example_parses():
     assert (notch.name, notch.edge, notch.position, notch.depth, notch.root_radius, notch.angle) == (
         "top notch", "top", 120.0, 4.0, 1.0, 0.0)
     assert (case.material.E, case.material.nu) == (210000.0, 0.3)
-    assert case.load.ends == ("left", "right")
-    assert (case.load.force, case.load.moment, case.load.stress) == (10000.0, 0.0, None)
+    assert case.loads[0].ends == ("left", "right")
+    assert (case.loads[0].force, case.loads[0].moment, case.loads[0].stress) == (10000.0, 0.0, None)
     assert (case.mesh.elements_per_radius, case.mesh.size, case.mesh.growth) == (16.0, 5.0, 0.25)
 
 
@@ -207,8 +207,8 @@ def test_expressions_evaluate_with_parameters_in_any_order():
     assert [name for name, _ in case.parameters] == ["half", "W", "r", "ang", "L"]  # file order kept
     assert case.part.cutouts[0].center == (125.0, 20.0)
     assert case.part.cutouts[0].diameter == 5.0
-    assert case.load.stress == pytest.approx(100.0)
-    assert case.load.force == 0.0 and case.load.moment == -8.0
+    assert case.loads[0].stress == pytest.approx(100.0)
+    assert case.loads[0].force == 0.0 and case.loads[0].moment == -8.0
 
 
 @pytest.mark.parametrize("cutout, expected", [

@@ -10,9 +10,9 @@ from pathlib import Path
 
 import pytest
 
-from fekt.case import load_case
+from fekt.api import load_case
 from fekt.geometry.build import build_part
-from fekt.solver.loads import build_loads
+from fekt.pipeline import apply_loads
 
 CASES = sorted((Path(__file__).resolve().parents[1] / "cases").glob("*.toml"))
 DEMOS = {"demo_link", "demo_strap", "demo_bracket"}
@@ -27,12 +27,12 @@ def test_the_expected_case_files_exist():
 def test_case_loads_and_builds(path):
     case = load_case(path)
     geometry = build_part(case.part)
-    loads = build_loads(geometry, case.load, case.part.thickness)
+    loads = apply_loads(case, geometry)
     assert case.source == str(path)
-    assert case.load.ends == ("left", "right")
+    assert case.loads[0].ends == ("left", "right")
     assert case.part.model == "plane_stress"
     assert (case.units.length, case.units.force) == ("mm", "N")
-    assert loads.force != 0.0
+    assert sum(c.magnitude for c in loads.components if c.quantity == "force") != 0.0
     # Symmetric or aligned ends: no balancing moment had to be added.
     assert loads.notes == ()
     if path.stem in EXPECTED:

@@ -12,9 +12,32 @@ import os
 import pytest
 
 from fekt.api import solve
-from fekt.case.loader import load_case, parse_case
+from fekt.api import load_case, parse_case
 from fekt.charts.grid import case_for, default_grid
 from fekt.cli.main import main
+from fekt.records import ChartCheck, to_jsonable
+from fekt.report.words import no_chart_text
+
+
+def family_chart(r) -> dict:
+    """The family check of a result as one dict: the compared peak's chart record with its verdict."""
+    check = r.family_check
+    if check.peak_rank is None:
+        return {"verdict": "no chart", "reason": no_chart_text(check.no_chart)}
+    chk = to_jsonable(r.peak(check.peak_rank).chart)
+    chk["verdict"] = "outside coverage" if chk["coverage"] == "outside" else "within coverage"
+    return chk
+
+
+def nearest_list(r) -> list[dict]:
+    out = []
+    for p in r.peaks:
+        if p.chart is None:
+            continue
+        d = {"feature": p.feature, **to_jsonable(p.chart)} if isinstance(p.chart, ChartCheck) else \
+            {"feature": p.feature, "verdict": no_chart_text(p.chart)}
+        out.append(d)
+    return out
 
 ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
 
@@ -39,7 +62,7 @@ GRID = default_grid()
 @pytest.mark.parametrize("point", GRID, ids=[f"{p.family}-{p.load}-{p.label}" for p in GRID])
 def test_fe_against_chart(point):
     r = solve(case_for(point), estimate=False)
-    chk = r.charts["family_check"]
+    chk = family_chart(r)
     assert chk["coverage"] == "inside", chk["coverage_notes"]
     key = (point.family, point.load, point.label)
     if key in DISCREPANCY:
@@ -54,7 +77,7 @@ def test_interior_point_count():
 
 def _family(fam: str, dims: str, load: str = "force = 1000") -> dict:
     c = parse_case(f'[part]\nfamily = "{fam}"\nthickness = 1\ndimensions = {{{dims}}}\n[load]\n{load}\n')
-    return solve(c, estimate=False).charts["family_check"]
+    return family_chart(solve(c, estimate=False))
 
 
 @pytest.mark.parametrize("fam,dims,ratio", [
@@ -74,17 +97,17 @@ def test_no_chart_family_and_combined_load():
 
 
 def test_free_form_parts_get_nearest_chart_or_none():
-    link = solve(load_case(os.path.join(ROOT, "cases", "demo_link.toml")), estimate=False).charts["nearest"]
+    link = nearest_list(solve(load_case(os.path.join(ROOT, "cases", "demo_link.toml")), estimate=False))
     kinds = {n["feature"]: n for n in link}
     hole = kinds["cut-out 'lightening hole'"]
     assert hole["fit"].startswith("strip-hole") and hole["dims"]["d"] == pytest.approx(12.0)
     assert any(n.get("fit", "").startswith("shoulder-fillet") for n in link)
-    bracket = solve(load_case(os.path.join(ROOT, "cases", "demo_bracket.toml")), estimate=False).charts["nearest"]
+    bracket = nearest_list(solve(load_case(os.path.join(ROOT, "cases", "demo_bracket.toml")), estimate=False))
     assert all("chart_kt_net" not in n for n in bracket if n["feature"].startswith("cut-out"))
 
 
 def test_fekt_charts_lists_every_family(capsys):
-    from fekt.case.schema import FAMILIES
+    from fekt.families import REGISTRY as FAMILIES
 
     assert main(["charts"]) == 0
     out = capsys.readouterr().out

@@ -17,16 +17,16 @@ from fekt.charts import fits as F
 from fekt.errors import InputError
 
 HOLE_FITS = {
-    "pilkey": F.fit_by_key("strip-hole/tension/pilkey"),
-    "roark": F.fit_by_key("strip-hole/tension/roark"),
-    "heywood": F.fit_by_key("strip-hole/tension/heywood"),
+    "pilkey": F.fit_by_key("strip-hole/tension/cubic-fit-1"),
+    "roark": F.fit_by_key("strip-hole/tension/cubic-fit-2"),
+    "heywood": F.fit_by_key("strip-hole/tension/cube-law"),
 }
-HOWLAND = F.fit_by_key("strip-hole/tension/howland")
-OU_T = F.fit_by_key("opposite-u/tension/pilkey")
-OU_B = F.fit_by_key("opposite-u/bending/pilkey")
-SHOULDER = F.fit_by_key("shoulder-fillet/tension/roark")
-INGLIS = F.fit_by_key("elliptical-hole/tension/inglis")
-SEMI_U = F.fit_by_key("semi-infinite-u/tension/pilkey")
+HOWLAND = F.fit_by_key("strip-hole/tension/series-table")
+OU_T = F.fit_by_key("opposite-u/tension/cubic-sqrt-fit")
+OU_B = F.fit_by_key("opposite-u/bending/cubic-sqrt-fit")
+SHOULDER = F.fit_by_key("shoulder-fillet/tension/cubic-sqrt-fit")
+INGLIS = F.fit_by_key("elliptical-hole/tension/infinite-plate")
+SEMI_U = F.fit_by_key("semi-infinite-u/tension/sqrt-fit")
 
 
 # --- Central hole in a strip, tension ------------------------------------------------
@@ -371,10 +371,10 @@ def test_fits_for_and_all_fits_consistent():
     total = sum(len(F.fits_for(fam, load)) for fam in F.FAMILIES for load in F.LOADS)
     assert total == len(F.all_fits())
     assert [f.key for f in F.fits_for("strip_hole", "tension")] == [
-        "strip-hole/tension/howland",
-        "strip-hole/tension/pilkey",
-        "strip-hole/tension/roark",
-        "strip-hole/tension/heywood",
+        "strip-hole/tension/series-table",
+        "strip-hole/tension/cubic-fit-1",
+        "strip-hole/tension/cubic-fit-2",
+        "strip-hole/tension/cube-law",
     ]
     with pytest.raises(InputError, match="unknown family"):
         F.fits_for("round_bar", "tension")
@@ -383,14 +383,14 @@ def test_fits_for_and_all_fits_consistent():
 
 
 def test_primary_fit_choice():
-    assert F.primary_fit("strip_hole", "tension").key == "strip-hole/tension/howland"
-    assert F.primary_fit("strip_hole", "tension", {"d": 3.0, "W": 10.0}).key == "strip-hole/tension/howland"
-    assert F.primary_fit("strip_hole", "tension", {"d": 7.0, "W": 10.0}).key == "strip-hole/tension/pilkey"
-    assert F.primary_fit("opposite_u_notches", "tension").key == "opposite-u/tension/pilkey"
-    assert F.primary_fit("shoulder_fillet", "tension").key == "shoulder-fillet/tension/roark"
+    assert F.primary_fit("strip_hole", "tension").key == "strip-hole/tension/series-table"
+    assert F.primary_fit("strip_hole", "tension", {"d": 3.0, "W": 10.0}).key == "strip-hole/tension/series-table"
+    assert F.primary_fit("strip_hole", "tension", {"d": 7.0, "W": 10.0}).key == "strip-hole/tension/cubic-fit-1"
+    assert F.primary_fit("opposite_u_notches", "tension").key == "opposite-u/tension/cubic-sqrt-fit"
+    assert F.primary_fit("shoulder_fillet", "tension").key == "shoulder-fillet/tension/cubic-sqrt-fit"
     # Low-confidence bending fit: not primary unless asked for explicitly.
     assert F.primary_fit("opposite_u_notches", "bending") is None
-    assert F.primary_fit("opposite_u_notches", "bending", allow_low=True).key == "opposite-u/bending/pilkey"
+    assert F.primary_fit("opposite_u_notches", "bending", allow_low=True).key == "opposite-u/bending/cubic-sqrt-fit"
 
 
 def test_single_u_notch_has_no_chart_but_a_shallow_limit():
@@ -412,14 +412,14 @@ def test_single_u_notch_has_no_chart_but_a_shallow_limit():
 @pytest.mark.parametrize(
     "fit, dims, item",
     [
-        (HOWLAND, {"d": 1.0}, "strip-hole/tension/howland"),
-        (HOWLAND, {"d": 1.0, "W": 10.0, "r": 1.0}, "strip-hole/tension/howland"),
-        (HOLE_FITS["pilkey"], {"d": 10.0, "W": 10.0}, "strip-hole/tension/pilkey.d"),
-        (OU_T, {"H": 10.0, "t": 5.0, "r": 1.0}, "opposite-u/tension/pilkey.t"),
-        (OU_T, {"H": 10.0, "t": 1.0, "r": 0.0}, "opposite-u/tension/pilkey.r"),
-        (SHOULDER, {"D": 1.0, "d": 2.0, "r": 0.1}, "shoulder-fillet/tension/roark.d"),
-        (INGLIS, {"a": 6.0, "b": 1.0, "W": 10.0}, "elliptical-hole/tension/inglis.W"),
-        (SEMI_U, {"t": float("nan"), "r": 1.0}, "semi-infinite-u/tension/pilkey.t"),
+        (HOWLAND, {"d": 1.0}, "strip-hole/tension/series-table"),
+        (HOWLAND, {"d": 1.0, "W": 10.0, "r": 1.0}, "strip-hole/tension/series-table"),
+        (HOLE_FITS["pilkey"], {"d": 10.0, "W": 10.0}, "strip-hole/tension/cubic-fit-1.d"),
+        (OU_T, {"H": 10.0, "t": 5.0, "r": 1.0}, "opposite-u/tension/cubic-sqrt-fit.t"),
+        (OU_T, {"H": 10.0, "t": 1.0, "r": 0.0}, "opposite-u/tension/cubic-sqrt-fit.r"),
+        (SHOULDER, {"D": 1.0, "d": 2.0, "r": 0.1}, "shoulder-fillet/tension/cubic-sqrt-fit.d"),
+        (INGLIS, {"a": 6.0, "b": 1.0, "W": 10.0}, "elliptical-hole/tension/infinite-plate.W"),
+        (SEMI_U, {"t": float("nan"), "r": 1.0}, "semi-infinite-u/tension/sqrt-fit.t"),
     ],
 )
 def test_invalid_dimensions_raise_input_error(fit, dims, item):

@@ -18,9 +18,9 @@ CASES = sorted(glob.glob(os.path.join(ROOT, "cases", "*.toml")))
 def test_every_case_solves_end_to_end(path, capsys):
     assert main(["solve", path, "--json"]) == 0
     data = json.loads(capsys.readouterr().out)
-    assert data["hot_spots"], "every case has at least one hot spot"
+    assert data["peaks"], "every case has at least one stress peak"
     assert "codes" in data["caution"]
-    for h in data["hot_spots"]:
+    for h in data["peaks"]:
         if not h["singular"] and h["feature_kind"] != "edge":
             assert h["equilibrium_error"] <= 0.005
 
@@ -28,7 +28,7 @@ def test_every_case_solves_end_to_end(path, capsys):
 def test_demo_link_lists_hole_and_fillet_with_own_sections(capsys):
     assert main(["solve", os.path.join(ROOT, "cases", "demo_link.toml"), "--json"]) == 0
     data = json.loads(capsys.readouterr().out)
-    feats = {h["feature"]: h for h in data["hot_spots"]}
+    feats = {h["feature"]: h for h in data["peaks"]}
     hole = [h for f, h in feats.items() if f.startswith("cut-out")]
     fillet = [h for f, h in feats.items() if f.startswith("fillet")]
     assert hole and fillet
@@ -71,4 +71,4 @@ def test_python_api():
 
     case = fekt.load_case(os.path.join(ROOT, "cases", "strip_hole.toml"))
     r = fekt.solve(case)
-    assert r.to_dict()["hot_spots"][0]["kt_net"] == pytest.approx(r.hot_spots[0].kt_net)
+    assert r.to_dict()["peaks"][0]["kt_net"] == pytest.approx(r.peaks[0].kt_net)

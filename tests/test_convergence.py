@@ -9,11 +9,13 @@ import os
 import pytest
 
 from conftest import kirsch_level, strip_case
-from fekt.case.loader import load_case
+from fekt.api import load_case
 from fekt.case.schema import MeshSpec
 from fekt.cli.main import main
 from fekt.pipeline import run
-from fekt.studies.convergence import Level, Sample, converge, ladder, study_spots, two_grid_uncertainty
+from fekt.kinds import FeatureKind
+from fekt.report.convergence import spot_message
+from fekt.studies.convergence import Level, Sample, converge, ladder, study_spots, two_grid_bands
 
 ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
 
@@ -47,16 +49,16 @@ def strip_reference():
     # Howland (1930) table (from memory) differs from it by +0.4 % at d/W = 0.3, inside the table's 1 %
     # band but outside a GCI band; recorded in docs/known-discrepancies.md.
     case = strip_case(d=12.0, mesh=MeshSpec(elements_per_radius=64))
-    return max(h.kt_gross for h in run(case).result.hot_spots if h.feature == "cut-out 'hole'")
+    return max(h.kt_gross for h in run(case).result.peaks if h.feature == "cut-out 'hole'")
 
 
 def test_strip_two_grid_band_contains_fine_reference(strip_reference):
     case = strip_case(d=12.0)
     r = run(case).result
-    u = two_grid_uncertainty(case, r)
-    hole = [h for h in r.hot_spots if h.feature == "cut-out 'hole'"]
+    _, bands = two_grid_bands(case, r)
+    hole = [h for h in r.peaks if h.feature == "cut-out 'hole'"]
     for h in hole:
-        band = u["hot_spots"][str(h.rank)]["kt_gross_band"]
+        band = bands[h.rank].kt_gross
         err = abs(h.kt_gross - strip_reference)
         assert err <= band <= max(5 * err, 2e-3 * strip_reference)
 
@@ -83,10 +85,10 @@ def test_sharp_corner_is_classified_singular():
     for s in corners:
         assert s.verdict == "singular" and s.band is None and s.extrapolated is None
         assert s.values[0] > s.values[1] > s.values[2]
-        assert "give the corner a radius" in s.message
+        assert "give the corner a radius" in spot_message(s)
 
 
-def _synthetic(values, kind="hole"):
+def _synthetic(values, kind=FeatureKind.HOLE):
     return [Level(MeshSpec(), 1, 1, h, 0.0, (Sample("f", 0.0, 0.0, v, kind=kind),))
             for h, v in zip([4.0, 2.0, 1.0], values)]
 
@@ -117,7 +119,7 @@ def test_cli_converge_json_and_outputs(tmp_path, capsys):
     assert main(["converge", case, "--levels", "2", "--elements-per-radius", "8", "--json", "--out", str(out)]) == 0
     captured = capsys.readouterr()
     data = json.loads(captured.out)
-    assert len(data["levels"]) == 2 and data["hot_spots"]
+    assert len(data["levels"]) == 2 and data["spots"]
     assert captured.err == ""  # no progress bar when stderr is not a terminal or with --json
     assert sorted(os.listdir(out)) == ["convergence.png", "report.txt", "study.csv", "study.json"]
 

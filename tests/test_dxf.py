@@ -10,7 +10,7 @@ import pytest
 from dxf_helpers import part_to_dxf
 from fekt.api import solve
 from fekt.case.dxf import read_outline
-from fekt.case.loader import load_case, parse_case
+from fekt.api import load_case, parse_case
 from fekt.case.schema import PartSpec
 from fekt.errors import CaseError, InputError
 from fekt.geometry.build import build_part
@@ -28,7 +28,7 @@ def test_demo_link_from_dxf_gives_the_same_kt(tmp_path):
     (tmp_path / "link.toml").write_text(_case_text("link.dxf"))
     a = solve(case, estimate=False)
     b = solve(load_case(tmp_path / "link.toml"), estimate=False)
-    assert [round(h.kt_net, 9) for h in a.hot_spots] == [round(h.kt_net, 9) for h in b.hot_spots]
+    assert [round(h.kt_net, 9) for h in a.peaks] == [round(h.kt_net, 9) for h in b.peaks]
 
 
 def test_units_from_header_and_override(tmp_path):

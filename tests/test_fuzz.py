@@ -20,7 +20,7 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from fekt.case.dxf import read_outline
-from fekt.case.loader import case_from_dict
+from fekt.api import case_from_dict
 from fekt.case.schema import PartSpec
 from fekt.errors import FektError
 from fekt.geometry.build import build_part

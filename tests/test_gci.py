@@ -13,13 +13,13 @@ import numpy as np
 import pytest
 
 from fekt.errors import InputError
+from fekt.report.words import estimate_method, format_value
 from fekt.studies.gci import (
     FS_THREE_GRID,
     FS_TWO_GRID,
     ConvergenceEstimate,
     classify,
     estimate,
-    format_value,
     observed_order,
     representative_size,
     trend,
@@ -161,7 +161,7 @@ def test_oscillatory_not_extrapolated():
     # Our own conservative band (no published source): 3 x max |difference| = 3 x 0.03.
     assert est.uncertainty_abs == pytest.approx(0.09)
     assert est.safety_factor == 3.0
-    assert "oscillatory" in est.method
+    assert "oscillatory" in estimate_method(est)
 
 
 def test_diverging_singular_corner():
@@ -221,7 +221,7 @@ def test_two_grids_use_fs3_and_formal_order():
     # GCI_fine = Fs |eps| / (r^p - 1) = 3 * (0.1/2.6) / 3 (Roache 1994)
     assert est.gci_fine == pytest.approx(0.1 / 2.6)
     assert est.uncertainty_abs == pytest.approx(0.1)
-    assert est.method == "GCI, 2 grids, Fs=3, formal p=2"
+    assert estimate_method(est) == "GCI, 2 grids, Fs=3, formal p=2"
 
 
 # ---------------------------------------------------------------------------
@@ -284,7 +284,7 @@ def test_uses_finest_three_of_more_grids():
     est = estimate(phi, h)
     assert est.n_used == 3
     assert est.extrapolated == pytest.approx(2.5, abs=1e-12)
-    assert "finest 3 of 4 grids" in est.method
+    assert "finest 3 of 4 grids" in estimate_method(est)
 
 
 def test_result_is_frozen():

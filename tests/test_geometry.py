@@ -12,11 +12,18 @@ import numpy as np
 import pytest
 
 from conftest import rect_outline
-from fekt.case.schema import CutoutSpec, LoadSpec, NotchSpec, PartSpec, Vertex
+from fekt.case.schema import CutoutSpec, NotchSpec, PartSpec, Vertex
 from fekt.errors import GeometryError
 from fekt.geometry.build import build_part
 from fekt.geometry.sections import net_section, section_at
-from fekt.solver.loads import build_loads
+from fekt.loads.ends import EndsSpec as LoadSpec
+from fekt.loads.ends import apply as apply_ends
+from fekt.models import REGISTRY as MODELS
+from fekt.models.base import section_of
+
+
+def build_loads(g, spec, thickness):
+    return apply_ends(spec, g, MODELS["plane_stress"], thickness)
 
 X = np.array([1.0, 0.0])
 
@@ -44,7 +51,7 @@ def test_shoulder_fillet_features_and_net_section():
     g = build_part(PartSpec(outline=out))
     fillets = [f for f in g.features if f.kind == "fillet"]
     assert len(fillets) == 2 and all(f.radius == 5 for f in fillets)
-    sec = net_section(g, fillets[0], X, 1.0)
+    sec = net_section(g, fillets[0], X)
     assert sec.width == pytest.approx(40.0, rel=1e-9)  # the smaller width d
 
 
@@ -52,18 +59,18 @@ def test_u_notch_net_section_is_at_the_root():
     g = build_part(PartSpec(outline=rect_outline(200, 40), notches=(
         NotchSpec("a", "top", 100, 8, 4), NotchSpec("b", "bottom", 100, 8, 4))))
     f = [f for f in g.features if f.kind == "notch"]
-    assert net_section(g, f[0], X, 1.0).width == pytest.approx(40 - 16, rel=1e-9)
+    assert net_section(g, f[0], X).width == pytest.approx(40 - 16, rel=1e-9)
 
 
 def test_hole_net_section_through_centre_and_two_intervals():
     g = build_part(PartSpec(outline=rect_outline(200, 40), cutouts=(CutoutSpec("h", "circle", (90, 15), diameter=10),)))
-    sec = net_section(g, g.features[0], X, 2.0)
+    sec = section_of(MODELS["plane_stress"], net_section(g, g.features[0], X), X, 2.0)
     assert sec.s == pytest.approx(90.0, abs=1e-6)
     assert sec.width == pytest.approx(30.0, rel=1e-9)
     assert len(sec.intervals) == 2
     # centroid of [0,10] and [20,40]: (10*5 + 20*30)/30
     assert sec.yc == pytest.approx(650 / 30, rel=1e-9)
-    assert section_at(g, X, 10.0, 2.0).width == pytest.approx(40.0)
+    assert section_at(g, X, 10.0).width == pytest.approx(40.0)
 
 
 def test_sharp_reentrant_corner_is_singular_with_warning():

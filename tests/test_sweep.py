@@ -9,6 +9,7 @@ import pytest
 
 from fekt.case.loader import read_case_table
 from fekt.cli.main import main
+from fekt.cli.sweep_cmd import parse_vary
 from fekt.errors import InputError
 from fekt.studies import sweep as sw
 
@@ -17,11 +18,11 @@ STRIP = os.path.join(ROOT, "cases", "chart_strip_hole.toml")
 
 
 def test_parse_vary():
-    assert sw.parse_vary("d=4:20:5") == ("d", [4.0, 8.0, 12.0, 16.0, 20.0])
-    assert sw.parse_vary("r = 1, 2,3") == ("r", [1.0, 2.0, 3.0])
+    assert parse_vary("d=4:20:5") == ("d", [4.0, 8.0, 12.0, 16.0, 20.0])
+    assert parse_vary("r = 1, 2,3") == ("r", [1.0, 2.0, 3.0])
     for bad in ("d", "d=1:2", "d=a:b:3", "d=1:2:0", "=1,2"):
         with pytest.raises(InputError):
-            sw.parse_vary(bad)
+            parse_vary(bad)
     assert len(sw.grid([("a", [1, 2]), ("b", [3, 4, 5])])) == 6
 
 
@@ -84,7 +85,7 @@ def test_fit_forms(serial_results):
     assert f.max_residual < 1e-9  # three points, quadratic: exact
     assert f.ranges == {"d": (6.0, 18.0)}
     with pytest.raises(InputError):
-        sw.fit_results(res, ["d"], "handbook")
+        sw.fit_results(res, ["d"], "cubic-sqrt")
 
 
 def test_goal_seek_reproduces_howland():

@@ -14,7 +14,7 @@ from fekt.case.schema import CutoutSpec, MeshSpec
 from fekt.cli.main import main
 from fekt.errors import SolveError
 from fekt.pipeline import run
-from fekt.solver.elasticity import linear_solve
+from fekt.solver.linear import linear_solve
 
 ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
 
@@ -29,7 +29,7 @@ def test_thin_ligament_warning():
         run(case)
 
 
-def test_hot_spot_near_loaded_end_warning():
+def test_peak_near_loaded_end_warning():
     r = run(strip_case(W=40.0, L=60.0, d=12.0)).result  # hole centre 30 from each end, width 40
     assert any("Saint-Venant" in w for w in r.warnings)
 

@@ -1,5 +1,4 @@
-"""Case input: the schema, safe dimension expressions and the TOML case-file loader."""
+"""Case input: the schema, safe dimension expressions, value checks and the TOML case-file loader.
 
-from fekt.case.loader import load_case, parse_case
-
-__all__ = ["load_case", "parse_case"]
+The public entry points with fekt's own models, loads and shapes are in :mod:`fekt.api`
+(``fekt.load_case``)."""

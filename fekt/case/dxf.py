@@ -17,7 +17,7 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from ..errors import CaseError
-from .schema import CutoutSpec, Vertex
+from .schema import CutoutSpec, Vertex, shoelace
 
 #: $INSUNITS codes (DXF reference) -> unit name; 0 = unitless
 INSUNITS = {1: "in", 4: "mm", 5: "cm", 6: "m"}
@@ -49,9 +49,6 @@ class Piece:
 class DxfOutline:
     outline: tuple[Vertex, ...]
     cutouts: tuple[CutoutSpec, ...]
-    drawing_unit: str
-    scale: float
-    loops: int
 
 
 def _where(e) -> str:
@@ -104,7 +101,7 @@ def _read_doc(source: str):
 def read_pieces(doc, scale: float, source: str) -> tuple[list[Piece], list[CutoutSpec]]:
     """Curves of the model space, in the case's unit; full circles and ellipses come back as cut-outs
     directly (they are closed loops by themselves)."""
-    path = source
+    path = source  # noqa: F841 (messages name the file)
     pieces: list[Piece] = []
     closed: list[CutoutSpec] = []
     for e in doc.modelspace():
@@ -192,6 +189,7 @@ def chain_loops(pieces: list[Piece], tol: float, source: str) -> list[list[Piece
 
 
 def _loop_area(loop: list[Piece]) -> float:
+    """Signed area of a loop, its arcs sampled at 16 points (enough to tell orientation and size)."""
     pts = []
     for pc in loop:
         if pc.center is None:
@@ -203,7 +201,7 @@ def _loop_area(loop: list[Piece]) -> float:
             for k in range(16):
                 a = a0 + sw * k / 16
                 pts.append((pc.center[0] + pc.radius * math.cos(a), pc.center[1] + pc.radius * math.sin(a)))
-    return 0.5 * sum(x0 * y1 - x1 * y0 for (x0, y0), (x1, y1) in zip(pts, pts[1:] + pts[:1]))
+    return shoelace([p[0] for p in pts], [p[1] for p in pts])
 
 
 def loop_vertices(loop: list[Piece]) -> tuple[Vertex, ...]:
@@ -253,4 +251,4 @@ def read_outline(path: str | Path, *, case_unit: str, drawing_unit: str | None =
     for k, lp in enumerate(loops[1:], start=1):
         cutouts.append(CutoutSpec(f"loop {k}", "chain", vertices=tuple(
             Vertex(v.x, v.y, v.fillet, None, v.arc_radius, v.bulge) for v in loop_vertices(lp))))
-    return DxfOutline(outline, tuple(cutouts), unit, scale, len(loops))
+    return DxfOutline(outline, tuple(cutouts))

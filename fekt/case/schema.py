@@ -8,6 +8,9 @@ Variants are made with :func:`dataclasses.replace`.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import Protocol
+
+from ..kinds import FeatureKind
 
 # --- units ------------------------------------------------------------------------------------
 
@@ -48,7 +51,9 @@ class Vertex:
 
     ``fillet``: corner radius (0 = sharp). ``edge``: name of the edge that starts here and runs to
     the next vertex. ``arc_radius``: if set, that edge is a circular arc of this radius, bulging
-    ``"out"`` of the region the chain encloses or ``"in"`` towards it.
+    ``"out"`` of the region the chain encloses or ``"in"`` towards it. ``feature``: the kind of notch
+    feature this vertex's fillet or (concave) arc edge forms, when the generator that made the vertex
+    knows better than the default (a fillet is a fillet, an inward arc edge a concave arc).
     """
 
     x: float
@@ -58,6 +63,18 @@ class Vertex:
     arc_radius: float | None = None
     bulge: str = "out"
     label: str | None = None  # names the item that made this vertex (e.g. a notch), for messages
+    feature: FeatureKind | None = None
+
+
+def shoelace(xs, ys) -> float:
+    """Signed area of a closed polygon (positive when its points run counter-clockwise)."""
+    n = len(xs)
+    return 0.5 * sum(xs[i] * ys[(i + 1) % n] - xs[(i + 1) % n] * ys[i] for i in range(n))
+
+
+def chain_signed_area(vertices) -> float:
+    """Signed area of the polygon through a chain's vertices (arcs and fillets ignored)."""
+    return shoelace([v.x for v in vertices], [v.y for v in vertices])
 
 
 @dataclass(frozen=True)
@@ -100,48 +117,13 @@ class CutoutSpec:
 
 
 @dataclass(frozen=True)
-class FamilyShape:
-    """A standard shape described by handbook dimensions (built by geometry.families).
-
-    ``required``/``optional``: dimension names; ``edges``: the outline edge names it creates (loads
-    refer to them; the loaded ends are always "left" and "right")."""
-
-    required: tuple[str, ...]
-    optional: tuple[str, ...]
-    edges: tuple[str, ...]
-    description: str
-
-
-_RECT_EDGES = ("bottom", "right", "top", "left")
-#: standard shapes with the handbook's own dimensions (load axis x; ends "left" and "right")
-FAMILIES: dict[str, FamilyShape] = {
-    "strip_hole": FamilyShape(("W", "d"), ("L",), _RECT_EDGES,
-                              "flat bar of width W with a central circular hole of diameter d; length L (default 8W)"),
-    "opposite_u_notches": FamilyShape(("H", "t", "r"), ("L",), _RECT_EDGES,
-                                      "flat bar of width H with two opposite U-notches of depth t and root "
-                                      "radius r at mid-length; length L (default 8H)"),
-    "single_u_notch": FamilyShape(("H", "t", "r"), ("L",), _RECT_EDGES,
-                                  "flat bar of width H with one U-notch (depth t, root radius r) in the top "
-                                  "edge at mid-length; length L (default 8H)"),
-    "shoulder_fillet": FamilyShape(("D", "d", "r"), ("L",),
-                                   ("bottom_wide", "step_bottom", "bottom_narrow", "right", "top_narrow",
-                                    "step_top", "top_wide", "left"),
-                                   "flat bar stepping symmetrically from width D to width d with fillets of "
-                                   "radius r; each part L long (default 3D)"),
-    "elliptical_hole": FamilyShape(("a", "b"), ("W", "L"), _RECT_EDGES,
-                                   "plate of width W (default 20a) with a central elliptical hole, semi-axis "
-                                   "a across the load and b along it; length L (default 8W)"),
-}
-
-
-@dataclass(frozen=True)
 class PartSpec:
     outline: tuple[Vertex, ...]
     cutouts: tuple[CutoutSpec, ...] = ()
     notches: tuple[NotchSpec, ...] = ()
     model: str = "plane_stress"  # or "plane_strain"
     thickness: float = 1.0
-    family: str | None = None  # a key of FAMILIES: the outline is built from ``dimensions``
+    family: str | None = None  # a standard shape (fekt.families): the outline is built from ``dimensions``
     dimensions: tuple[tuple[str, float], ...] = ()
 
 
@@ -156,20 +138,16 @@ class Material:
     nu: float = 0.3
 
 
-@dataclass(frozen=True)
-class LoadSpec:
-    """Self-equilibrated end loads.
+class LoadSpec(Protocol):
+    """A load as read from the case file: a frozen record of one load type (see :mod:`fekt.loads`).
 
-    ``ends`` names two straight, parallel outline edges. The load axis is the outward normal of the
-    second end (pointing away from the first). ``force`` is the axial force (tension positive);
-    ``moment`` is the in-plane bending moment about each end's centroid, positive when it puts the
-    side at +90 degrees from the load axis in tension.
-    """
+    Every load type defines its own record; all of them name their type and the load, and apply
+    themselves to the built part (``apply(part, model, thickness)``, see :mod:`fekt.loads.base`)."""
 
-    ends: tuple[str, str]
-    force: float = 0.0
-    moment: float = 0.0
-    stress: float | None = None  # if given, force = stress * area of the first end section
+    kind: str
+    name: str
+
+    def apply(self, part, model, thickness): ...
 
 
 @dataclass(frozen=True)
@@ -189,7 +167,7 @@ class MeshSpec:
 class Case:
     name: str
     part: PartSpec
-    load: LoadSpec
+    loads: tuple[LoadSpec, ...]
     material: Material = field(default_factory=Material)
     mesh: MeshSpec = field(default_factory=MeshSpec)
     units: Units = field(default_factory=Units)

@@ -35,27 +35,16 @@ import numpy as np
 from scipy.interpolate import CubicSpline
 
 from fekt.errors import InputError
+from fekt.exact import inglis_kt
+from fekt.families import REGISTRY as SHAPES
 
-Family = Literal[
-    "strip_hole",
-    "opposite_u_notches",
-    "single_u_notch",
-    "shoulder_fillet",
-    "elliptical_hole",
-    "semi_infinite_u_notch",
-]
+Family = str  # a key of FAMILIES
 Load = Literal["tension", "bending"]
 Basis = Literal["net", "gross"]
 Confidence = Literal["high", "moderate", "low"]
 
-FAMILIES: tuple[str, ...] = (
-    "strip_hole",
-    "opposite_u_notches",
-    "single_u_notch",
-    "shoulder_fillet",
-    "elliptical_hole",
-    "semi_infinite_u_notch",
-)
+#: chart families: every standard shape of the registry, plus chart-only shapes (no part to build)
+FAMILIES: tuple[str, ...] = (*SHAPES, "semi_infinite_u_notch")
 LOADS: tuple[str, ...] = ("tension", "bending")
 BASES: tuple[str, ...] = ("net", "gross")
 CONFIDENCES: tuple[str, ...] = ("high", "moderate", "low")
@@ -317,7 +306,7 @@ def howland_ktg(x: float) -> float:
     if not (HOWLAND_D_OVER_W[0] <= x <= HOWLAND_D_OVER_W[-1]):
         raise InputError(
             f"d/W = {_num(x)} outside the tabulated range [0, 0.5]; the table is not extrapolated",
-            item="strip-hole/tension/howland",
+            item="strip-hole/tension/series-table",
         )
     spline = CubicSpline(np.asarray(HOWLAND_D_OVER_W), np.asarray(HOWLAND_KTG))
     return float(spline(x))
@@ -472,13 +461,6 @@ def shoulder_tension_roark_kt(h_over_r: float, u: float) -> float:
 # ---------------------------------------------------------------------------
 
 
-def inglis_kt(a: float, b: float) -> float:
-    """Kt = 1 + 2a/b for an elliptical hole in an infinite plate, load perpendicular to
-    the a semi-axis (Inglis 1913, Trans. INA 55, 219-241; Kolosov). From memory and
-    re-derived from the complex-potential edge stress."""
-    return 1.0 + 2.0 * a / b
-
-
 def semi_infinite_u_kt(t_over_r: float) -> float:
     """Kt = 0.855 + 2.21 sqrt(t/r), U-notch in the edge of a semi-infinite plate, tension
     (Pilkey & Pilkey 2008, semi-infinite U-notch chart; from memory), 1 <= t/r <= 361."""
@@ -490,35 +472,22 @@ def semi_infinite_u_kt(t_over_r: float) -> float:
 # ---------------------------------------------------------------------------
 
 
-def net_over_gross_width(family: str, **dims: float) -> float:
-    """Net width / gross width for the families that have both sections.
-
-    strip_hole (W - d)/W; opposite_u_notches (H - 2t)/H; shoulder_fillet d/D;
-    elliptical_hole (W - 2a)/W (1 for W = inf).
-    """
-    if family == "strip_hole":
-        return (dims["W"] - dims["d"]) / dims["W"]
-    if family == "opposite_u_notches":
-        return (dims["H"] - 2 * dims["t"]) / dims["H"]
-    if family == "shoulder_fillet":
-        return dims["d"] / dims["D"]
-    if family == "elliptical_hole":
-        return 1.0 if math.isinf(dims["W"]) else (dims["W"] - 2 * dims["a"]) / dims["W"]
-    raise InputError(f"family {family!r} has no finite width, so net and gross coincide or are undefined", item="basis")
-
-
 def kt_as(fit: ChartFit, basis: Basis, **dims: float) -> float:
     """Kt of ``fit`` expressed on ``basis`` ("net" or "gross").
 
-    sigma_nom scales with 1/width in tension and 1/width^2 in bending, so
-    Kt_net = Kt_gross (net/gross width)^n with n = 1 (tension) or 2 (bending).
+    Kt_net = Kt_gross * sigma_nom,gross / sigma_nom,net; the family knows that ratio for its shape and
+    load (flat bars: the width ratio to the power 1 in tension, 2 in bending).
     """
     if basis not in BASES:
         raise InputError(f"unknown basis {basis!r}; expected one of {BASES}", item="basis")
     value = fit.kt(**dims)
     if basis == fit.basis:
         return value
-    ratio = net_over_gross_width(fit.family, **dims) ** (1 if fit.load == "tension" else 2)
+    family = SHAPES.get(fit.family)
+    if family is None:
+        raise InputError(f"family {fit.family!r} has no finite width, so net and gross coincide or are undefined",
+                         item="basis")
+    ratio = family.net_over_gross(dims, fit.load)
     return value * ratio if basis == "net" else value / ratio
 
 
@@ -527,8 +496,8 @@ def kt_as(fit: ChartFit, basis: Basis, **dims: float) -> float:
 # ---------------------------------------------------------------------------
 
 _HOLE_X_NOTE = (
-    "confidence high for d/W <= 0.5, moderate beyond (our verification references' coverage "
-    "table quotes the fits to d/W ~ 0.9)"
+    "confidence high for d/W <= 0.5, moderate beyond (the coverage table of docs/references.md "
+    "quotes the fits to d/W ~ 0.9)"
 )
 
 
@@ -560,7 +529,7 @@ def _build_fits() -> tuple[ChartFit, ...]:
     ou_tr = ParamRange("t/r", 0.1, 50.0, "two coefficient ranges 0.1-2 and 2-50 (Pilkey & Pilkey 2008, from memory)")
     return (
         ChartFit(
-            key="strip-hole/tension/howland",
+            key="strip-hole/tension/series-table",
             family="strip_hole", load="tension", basis="gross",
             nominal="P/(h W)",
             parameters=("d", "W"),
@@ -573,7 +542,7 @@ def _build_fits() -> tuple[ChartFit, ...]:
             ),
             from_memory=True,
             note=(
-                "our verification references rate the recalled table moderate-high: it agrees within 0.3% with "
+                "docs/references.md rates the recalled table moderate-high: it agrees within 0.3% with "
                 "two independently recalled fits. Series solution for an infinitely long strip; "
                 "model loaded ends 2-3 W from the hole. Not extrapolated beyond d/W = 0.5."
             ),
@@ -582,32 +551,32 @@ def _build_fits() -> tuple[ChartFit, ...]:
             check_fn=_check_strip_hole,
         ),
         _net_hole_fit(
-            "pilkey", hole_pilkey_ktn, hole_range_fit,
+            "cubic-fit-1", hole_pilkey_ktn, hole_range_fit,
             "W. D. Pilkey & D. F. Pilkey (2008), Peterson's Stress Concentration Factors 3rd ed., "
             "Chart 4.1 fit Ktn = 2 + 0.284(1-x) - 0.600(1-x)^2 + 1.32(1-x)^3 (from memory)",
             "within 0.3% of Howland for d/W <= 0.5; " + _HOLE_X_NOTE,
         ),
         _net_hole_fit(
-            "roark", hole_roark_ktn, hole_range_fit,
+            "cubic-fit-2", hole_roark_ktn, hole_range_fit,
             "W. C. Young, R. G. Budynas & A. M. Sadegh (2012), Roark's Formulas for Stress and "
             "Strain 8th ed., Table 17.1, central hole in tension: "
             "Ktn = 3.00 - 3.13x + 3.66x^2 - 1.53x^3 (from memory)",
             "within 0.3% of Howland for d/W <= 0.5; " + _HOLE_X_NOTE,
         ),
         _net_hole_fit(
-            "heywood", hole_heywood_ktn,
+            "cube-law", hole_heywood_ktn,
             ParamRange("d/W", 0.0, 1.0, "stated for all d/W; " + _HOLE_X_NOTE, hi_inclusive=False),
             "R. B. Heywood (1952), Designing by Photoelasticity: Ktn = 2 + (1-x)^3 (from memory)",
             "up to 1.6% below Howland for d/W <= 0.5",
         ),
         ChartFit(
-            key="opposite-u/tension/pilkey",
+            key="opposite-u/tension/cubic-sqrt-fit",
             family="opposite_u_notches", load="tension", basis="net",
             nominal="P/(h d), d = H - 2t",
             parameters=("H", "t", "r"),
             ranges=(
                 ou_tr,
-                ParamRange("2t/H", 0.0, 0.9, "upper limit as listed in our verification references' coverage table (published origin not recorded)"),
+                ParamRange("2t/H", 0.0, 0.9, "upper limit as listed in the coverage table of docs/references.md (published origin not recorded)"),
             ),
             band=0.05,
             confidence="moderate",
@@ -626,7 +595,7 @@ def _build_fits() -> tuple[ChartFit, ...]:
             check_fn=_check_opposite_u,
         ),
         ChartFit(
-            key="opposite-u/bending/pilkey",
+            key="opposite-u/bending/cubic-sqrt-fit",
             family="opposite_u_notches", load="bending", basis="net",
             nominal="6M/(h d^2), d = H - 2t",
             parameters=("H", "t", "r"),
@@ -648,7 +617,7 @@ def _build_fits() -> tuple[ChartFit, ...]:
             check_fn=_check_opposite_u,
         ),
         ChartFit(
-            key="shoulder-fillet/tension/roark",
+            key="shoulder-fillet/tension/cubic-sqrt-fit",
             family="shoulder_fillet", load="tension", basis="net",
             nominal="P/(T d), T = plate thickness",
             parameters=("D", "d", "r"),
@@ -674,7 +643,7 @@ def _build_fits() -> tuple[ChartFit, ...]:
             check_fn=_check_shoulder,
         ),
         ChartFit(
-            key="elliptical-hole/tension/inglis",
+            key="elliptical-hole/tension/infinite-plate",
             family="elliptical_hole", load="tension", basis="gross",
             nominal="S, remote uniform stress perpendicular to the a semi-axis (gross = net in an infinite plate)",
             parameters=("a", "b", "W"),
@@ -702,7 +671,7 @@ def _build_fits() -> tuple[ChartFit, ...]:
             check_fn=_check_ellipse,
         ),
         ChartFit(
-            key="semi-infinite-u/tension/pilkey",
+            key="semi-infinite-u/tension/sqrt-fit",
             family="semi_infinite_u_notch", load="tension", basis="gross",
             nominal="S, remote uniform stress in the semi-infinite plate",
             parameters=("t", "r"),
@@ -742,7 +711,7 @@ _GAPS: tuple[ChartGap, ...] = (
         "have a fit). Only check: as the notch becomes shallow (2t/H -> 0) Kt tends to the "
         "semi-infinite U-notch fit (from memory). Results depend on how the ends are loaded "
         "(pinned ends rotate and add bending from the eccentric net section).",
-        shallow_limit_key="semi-infinite-u/tension/pilkey",
+        shallow_limit_key="semi-infinite-u/tension/sqrt-fit",
     ),
     ChartGap(
         "single_u_notch", "bending",
@@ -853,7 +822,6 @@ __all__ = [
     "howland_ktn",
     "inglis_kt",
     "kt_as",
-    "net_over_gross_width",
     "opposite_u_bending_pilkey_kt",
     "opposite_u_tension_pilkey_kt",
     "pick_set",

@@ -12,12 +12,14 @@ def add_parser(sub) -> None:
 
 
 def run(args) -> int:
-    from ..case.schema import FAMILIES
     from ..charts.fits import all_fits, chart_gaps
+    from ..families import REGISTRY as FAMILIES
+    from ..records import CHARTS_SCHEMA
 
     fits = all_fits()
     if args.json:
-        data = {"families": {k: {"dimensions": list(v.required) + [f"{o} (optional)" for o in v.optional],
+        data = {"schema": CHARTS_SCHEMA,
+                "families": {k: {"dimensions": list(v.required) + [f"{o} (optional)" for o in v.optional],
                                  "description": v.description} for k, v in FAMILIES.items()},
                 "fits": [{"key": f.key, "family": f.family, "load": f.load, "basis": f.basis, "nominal": f.nominal,
                           "ranges": [{"ratio": r.name, "range": r.interval_text(), "why": r.description}

@@ -1,4 +1,4 @@
-"""``fekt solve CASE``: one case, ranked hot spots with Kt and an uncertainty on each."""
+"""``fekt solve CASE``: one case, ranked stress peaks with Kt and an uncertainty on each."""
 
 from __future__ import annotations
 
@@ -8,7 +8,7 @@ import sys
 
 
 def add_parser(sub) -> None:
-    p = sub.add_parser("solve", help="solve one case file and report every hot spot with its Kt")
+    p = sub.add_parser("solve", help="solve one case file and report every stress peak with its Kt")
     p.add_argument("case", help="case file (TOML)")
     p.add_argument("--json", action="store_true", help="print the full result as JSON instead of the table")
     p.add_argument("--out", metavar="DIR", help="write result.json, report.txt and stress.png into DIR")
@@ -23,7 +23,7 @@ def load(args):
     """The case named on the command line, with mesh overrides applied."""
     import dataclasses
 
-    from ..case.loader import load_case
+    from ..api import load_case
     from .main import UsageError
 
     if not os.path.isfile(args.case):

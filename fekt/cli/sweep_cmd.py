@@ -6,6 +6,34 @@ import json
 import os
 import sys
 
+from ..errors import InputError
+
+
+def parse_vary(spec: str) -> tuple[str, list[float]]:
+    """'NAME=START:STOP:COUNT' (evenly spaced, both ends included) or 'NAME=v1,v2,...'."""
+    import numpy as np
+
+    if "=" not in spec:
+        raise InputError(f"'{spec}' is not NAME=START:STOP:COUNT or NAME=v1,v2,...", item="--vary")
+    name, rhs = (t.strip() for t in spec.split("=", 1))
+    try:
+        if ":" in rhs:
+            parts = rhs.split(":")
+            if len(parts) != 3:
+                raise ValueError
+            a, b, n = float(parts[0]), float(parts[1]), int(parts[2])
+            if n < 1:
+                raise ValueError
+            values = list(np.linspace(a, b, n)) if n > 1 else [a]
+        else:
+            values = [float(v) for v in rhs.split(",") if v.strip()]
+    except ValueError:
+        raise InputError(f"'{spec}': the values must be START:STOP:COUNT (COUNT a whole number >= 1) or a "
+                         "comma-separated list of numbers", item="--vary") from None
+    if not name.isidentifier() or not values:
+        raise InputError(f"'{spec}': need a parameter name and at least one value", item="--vary")
+    return name, [float(v) for v in values]
+
 
 def add_parser(sub) -> None:
     p = sub.add_parser("sweep", help="Kt over ranges of the case's named parameters (your own chart)")
@@ -21,7 +49,8 @@ def add_parser(sub) -> None:
     p.add_argument("--scheduler", metavar="ADDRESS", help="Dask scheduler address (implies --executor dask)")
     p.add_argument("--no-estimate", action="store_true", help="skip the per-point uncertainty (faster)")
     p.add_argument("--basis", choices=("net", "gross"), default="net", help="which Kt to report and fit")
-    p.add_argument("--fit", metavar="FORM", help="fit the results: poly:N, power, or handbook (two parameters)")
+    p.add_argument("--fit", metavar="FORM", help="fit the results: poly:N, power, or cubic-sqrt (two parameters: "
+                   "cubic in the first, coefficients linear in sqrt(second) and second)")
     p.add_argument("--json", action="store_true", help="print the results as JSON")
     p.set_defaults(run=run_sweep)
 
@@ -45,10 +74,11 @@ def _progress(total: int, desc: str, quiet: bool):
 
 
 def run_sweep(args) -> int:
-    from ..case.loader import case_from_dict, read_case_table
+    from ..api import case_from_dict, read_case_table
+    from ..records import SWEEP_SCHEMA, to_jsonable
     from ..report.files import write_json, write_text
-    from ..report.sweep import format_sweep, write_sweep_plot
-    from ..studies.sweep import SweepFiles, fit_results, grid, parse_vary, run_points
+    from ..report.sweep import SweepFiles, format_sweep, write_sweep_plot
+    from ..studies.sweep import fit_results, grid, run_points
     from .main import UsageError
 
     if not os.path.isfile(args.case):
@@ -88,8 +118,8 @@ def run_sweep(args) -> int:
     results.sort(key=lambda r: r.index)
     fit = fit_results(results, names, args.fit, args.basis) if args.fit else None
     text = format_sweep(results, names, args.basis, fit)
-    data = {"case": args.case, "varied": names, "basis": args.basis, "points": [r.to_json() for r in results],
-            "resumed_points": len(done), "fit": None if fit is None else fit.__dict__}
+    data = {"schema": SWEEP_SCHEMA, "case": args.case, "varied": names, "basis": args.basis,
+            "points": [r.to_json() for r in results], "resumed_points": len(done), "fit": to_jsonable(fit)}
     write_json(os.path.join(out, "sweep.json"), data)
     write_text(os.path.join(out, "report.txt"), text + "\n")
     write_sweep_plot(results, names, args.basis, os.path.join(out, "sweep.png"),
@@ -102,7 +132,8 @@ def run_sweep(args) -> int:
 
 
 def run_target(args) -> int:
-    from ..case.loader import case_from_dict, read_case_table
+    from ..api import case_from_dict, read_case_table
+    from ..records import TARGET_SCHEMA, to_jsonable
     from ..report.sweep import format_target
     from ..studies.sweep import goal_seek
     from .main import UsageError
@@ -131,5 +162,5 @@ def run_target(args) -> int:
             print(f"  {args.vary} = {x:.6g}: Kt_{args.basis} = {kt:.5g}", file=sys.stderr)
 
     t = goal_seek(table, args.case, args.vary, args.kt, (lo, hi), basis=args.basis, progress=progress)
-    print(json.dumps(t.__dict__, indent=2) if args.json else format_target(t))
+    print(json.dumps({"schema": TARGET_SCHEMA, **to_jsonable(t)}, indent=2) if args.json else format_target(t))
     return 0

@@ -15,10 +15,11 @@ import numpy as np
 from shapely.geometry import Polygon
 from shapely.validation import explain_validity
 
-from ..case.schema import CutoutSpec, NotchSpec, PartSpec, Vertex
+from ..case.schema import CutoutSpec, NotchSpec, PartSpec, Vertex, chain_signed_area
 from ..errors import GeometryError
-from .families import expand_family
+from ..families import expand_family
 from .features import detect_features
+from ..kinds import FeatureKind, LoopKind
 from .model import ARC, ELLIPSE, LINE, Loop, PartGeometry, Segment
 
 _EPS = 1e-12
@@ -32,12 +33,6 @@ def _cross(a: np.ndarray, b: np.ndarray) -> float:
     return float(a[0] * b[1] - a[1] * b[0])
 
 
-def _chain_area(vertices: tuple[Vertex, ...] | list[Vertex]) -> float:
-    x = np.array([v.x for v in vertices])
-    y = np.array([v.y for v in vertices])
-    return 0.5 * float(np.sum(x * np.roll(y, -1) - np.roll(x, -1) * y))
-
-
 def reverse_chain(vertices: list[Vertex]) -> list[Vertex]:
     """Reverse a closed chain, moving each edge's attributes with the edge."""
     n = len(vertices)
@@ -45,7 +40,9 @@ def reverse_chain(vertices: list[Vertex]) -> list[Vertex]:
     for j in range(n):
         v = vertices[n - 1 - j]
         e = vertices[(n - 2 - j) % n]  # the old edge that now starts at this vertex
-        out.append(Vertex(v.x, v.y, v.fillet, e.edge, e.arc_radius, e.bulge, v.label))
+        # the fillet stays with its vertex, the arc (and the feature it forms) with its edge
+        out.append(Vertex(v.x, v.y, v.fillet, e.edge, e.arc_radius, e.bulge, v.label,
+                          v.feature if v.fillet else e.feature))
     return out
 
 
@@ -145,7 +142,8 @@ def _notch_vertices(n: NotchSpec, p0, d, n_in, edge) -> list[tuple[float, Vertex
     def at(s: float, depth: float, own: bool = True, **kw) -> tuple[float, Vertex]:
         # vertices whose outgoing edge or fillet belongs to the notch carry its name
         q = p0 + s * d + depth * n_in
-        return s, Vertex(float(q[0]), float(q[1]), label=f"notch '{n.name}'" if own else None, **kw)
+        return s, Vertex(float(q[0]), float(q[1]), label=f"notch '{n.name}'" if own else None,
+                         feature=FeatureKind.NOTCH if own else None, **kw)
 
     if n.angle == 0:
         if r <= 0:
@@ -212,7 +210,7 @@ def chain_segments(vertices: list[Vertex], *, item: str, origin: str) -> list[Se
         t2 = P[i] + L * d_out
         c = P[i] + (v.fillet / math.sin(phi / 2)) * _unit(d_out - d_in)
         arc = Segment(ARC, tuple(t1), tuple(t2), tuple(c), v.fillet, cr > 0,
-                      origin=v.label or f"{origin} vertex {i} fillet")
+                      origin=v.label or f"{origin} vertex {i} fillet", feature=v.feature or FeatureKind.FILLET)
         fil[i] = (t1, t2, arc)
     segs: list[Segment] = []
     for i, v in enumerate(vertices):
@@ -252,13 +250,13 @@ def chain_segments(vertices: list[Vertex], *, item: str, origin: str) -> list[Se
         # 'out' bulges to the right of travel on a counter-clockwise chain: centre on the left, CCW arc
         centre = mid + h * n_left if v.bulge == "out" else mid - h * n_left
         segs.append(Segment(ARC, tuple(a), tuple(b), tuple(centre), R, v.bulge == "out",
-                            edge=v.edge, origin=label))
+                            edge=v.edge, origin=label, feature=v.feature or FeatureKind.CONCAVE_ARC))
     return segs
 
 
 def _ccw_chain(vertices: tuple[Vertex, ...]) -> list[Vertex]:
     verts = list(vertices)
-    if len(verts) >= 3 and _chain_area(verts) < 0:
+    if len(verts) >= 3 and chain_signed_area(verts) < 0:
         verts = reverse_chain(verts)
     return verts
 
@@ -313,7 +311,7 @@ def cutout_loop(c: CutoutSpec, k: int) -> Loop:
         raise GeometryError(f"unknown shape '{c.shape}'", item=f"{item}.shape",
                             hint="one of circle, ellipse, slot, rounded_rectangle, chain")
     segs = [s.reversed() for s in reversed(segs)]
-    return Loop(tuple(segs), "cutout", c.name)
+    return Loop(tuple(segs), LoopKind.CUTOUT, c.name)
 
 
 # --- validation -------------------------------------------------------------------------------------
@@ -369,8 +367,6 @@ def build_part(spec: PartSpec) -> PartGeometry:
     spec = expand_family(spec)
     if spec.thickness <= 0:
         raise GeometryError(f"thickness = {spec.thickness:.6g} must be positive", item="part.thickness")
-    if spec.model not in ("plane_stress", "plane_strain"):
-        raise GeometryError(f"model = '{spec.model}' must be 'plane_stress' or 'plane_strain'", item="part.model")
     verts = list(spec.outline)
     if len(verts) < 3:
         raise GeometryError(f"the outline needs at least 3 vertices, got {len(verts)}", item="part.outline")
@@ -379,7 +375,7 @@ def build_part(spec: PartSpec) -> PartGeometry:
         raise GeometryError("the outline encloses no area (all vertices lie on one line)", item="part.outline")
     verts = _ccw_chain(tuple(verts))
     verts = insert_notches(verts, spec.notches)
-    outline = Loop(tuple(chain_segments(verts, item="part.outline", origin="outline")), "outline", "outline")
+    outline = Loop(tuple(chain_segments(verts, item="part.outline", origin="outline")), LoopKind.OUTLINE, "outline")
     names = [c.name for c in spec.cutouts]
     for n in set(names):
         if names.count(n) > 1:

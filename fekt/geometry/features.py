@@ -17,6 +17,7 @@ import math
 
 import numpy as np
 
+from ..kinds import FeatureKind, LoopKind
 from .model import ARC, ELLIPSE, LINE, Feature, Loop, Segment
 
 #: corners that turn by less than this are treated as smooth (tangent-continuous within drawing noise)
@@ -66,14 +67,14 @@ def detect_features(loops: list[Loop] | tuple[Loop, ...], notch_names: set[str] 
     features: list[Feature] = []
     warnings: list[str] = []
     for li, loop in enumerate(loops):
-        if loop.kind == "cutout":
+        if loop.kind == LoopKind.CUTOUT:
             radii = [s.curvature_radius() for s in loop.segments]
             finite = [r for r in radii if math.isfinite(r)]
             pts = loop.polygon_points()
             single_circle = len(loop.segments) == 1 and loop.segments[0].kind == ARC
             features.append(Feature(
                 name=f"cut-out '{loop.name}'",
-                kind="hole" if single_circle else "cutout",
+                kind=FeatureKind.HOLE if single_circle else FeatureKind.CUTOUT,
                 segments=tuple((li, k) for k in range(len(loop.segments))),
                 radius=min(finite) if finite else 0.0,
                 point=(float(pts[0].mean()), float(pts[1].mean())),
@@ -93,21 +94,22 @@ def detect_features(loops: list[Loop] | tuple[Loop, ...], notch_names: set[str] 
                 k += 1
                 mid_seg = segs[group[len(group) // 2]]
                 mid = mid_seg.point(0.5)[:, 0]
-                if s.origin.startswith("notch"):
-                    kind, name = "notch", s.origin
-                elif "fillet" in s.origin:
-                    kind, name = "fillet", f"fillet at ({_fmt(mid[0])}, {_fmt(mid[1])})"
+                kind = s.feature or FeatureKind.CONCAVE_ARC
+                if kind == FeatureKind.NOTCH:
+                    name = s.origin
+                elif kind == FeatureKind.FILLET:
+                    name = f"fillet at ({_fmt(mid[0])}, {_fmt(mid[1])})"
                 else:
-                    kind, name = "concave_arc", f"concave arc at ({_fmt(mid[0])}, {_fmt(mid[1])})"
+                    name = f"concave arc at ({_fmt(mid[0])}, {_fmt(mid[1])})"
                 features.append(Feature(name=name, kind=kind, segments=tuple((li, g) for g in group),
                                         radius=min(segs[g].curvature_radius() for g in group),
                                         point=(float(mid[0]), float(mid[1]))))
         for k, ang, p in corner_turns(loop):
             if ang < -CORNER_TOLERANCE_DEG:
                 name = f"sharp corner at ({_fmt(p[0])}, {_fmt(p[1])})"
-                features.append(Feature(name=name, kind="sharp_corner", segments=(), radius=0.0,
+                features.append(Feature(name=name, kind=FeatureKind.SHARP_CORNER, segments=(), radius=0.0,
                                         point=p, singular=True))
-                where = "outline" if loop.kind == "outline" else f"cut-out '{loop.name}'"
+                where = "outline" if loop.kind == LoopKind.OUTLINE else f"cut-out '{loop.name}'"
                 warnings.append(
                     f"{name} ({where}) is a re-entrant corner with no radius: its elastic peak stress has no "
                     f"finite value and grows without limit as the mesh is refined, so any Kt shown for it "

@@ -16,9 +16,11 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-LINE = "line"
-ARC = "arc"
-ELLIPSE = "ellipse"
+from ..kinds import CurveKind, FeatureKind, LoopKind
+
+LINE = CurveKind.LINE
+ARC = CurveKind.ARC
+ELLIPSE = CurveKind.ELLIPSE
 
 
 @dataclass(frozen=True)
@@ -32,10 +34,11 @@ class Segment:
       ``angle``) and ``b``, traversed counter-clockwise if ``ccw``.
 
     ``edge`` is the user's name for the outline edge the segment belongs to (loads refer to it);
-    ``origin`` says which input item produced it (for messages and feature names).
+    ``origin`` says which input item produced it (for messages and feature names); ``feature`` is the
+    kind of notch feature a concave curve forms, set by the generator that made it.
     """
 
-    kind: str
+    kind: CurveKind
     start: tuple[float, float]
     end: tuple[float, float]
     center: tuple[float, float] | None = None
@@ -46,6 +49,7 @@ class Segment:
     angle: float = 0.0
     edge: str | None = None
     origin: str = ""
+    feature: FeatureKind | None = None
 
     # -- geometry helpers -------------------------------------------------------------------
     def sweep(self) -> float:
@@ -126,12 +130,12 @@ class Segment:
 
     def reversed(self) -> "Segment":
         if self.kind == LINE:
-            return Segment(LINE, self.end, self.start, edge=self.edge, origin=self.origin)
+            return Segment(LINE, self.end, self.start, edge=self.edge, origin=self.origin, feature=self.feature)
         if self.kind == ARC:
             return Segment(ARC, self.end, self.start, self.center, self.radius, not self.ccw,
-                           edge=self.edge, origin=self.origin)
+                           edge=self.edge, origin=self.origin, feature=self.feature)
         return Segment(ELLIPSE, self.start, self.end, self.center, 0.0, not self.ccw,
-                       self.a, self.b, self.angle, self.edge, self.origin)
+                       self.a, self.b, self.angle, self.edge, self.origin, self.feature)
 
     def sample(self, max_angle: float = math.radians(1.0), max_len: float | None = None) -> np.ndarray:
         """Points along the segment including both ends, (2, n)."""
@@ -146,10 +150,10 @@ class Segment:
 
 @dataclass(frozen=True)
 class Loop:
-    """A closed chain of segments; ``kind`` is "outline" or "cutout"."""
+    """A closed chain of segments."""
 
     segments: tuple[Segment, ...]
-    kind: str
+    kind: LoopKind
     name: str
 
     def polygon_points(self, max_angle: float = math.radians(1.0)) -> np.ndarray:
@@ -165,14 +169,14 @@ class Loop:
 class Feature:
     """A notch feature: a place where stress concentrates.
 
-    ``kind`` is one of ``hole``, ``cutout``, ``notch``, ``fillet``, ``concave_arc``, ``sharp_corner``.
+    ``kind`` is set by the generator that made the curves (see :class:`fekt.kinds.FeatureKind`).
     ``segments`` lists (loop index, segment index) pairs that form the feature; a sharp corner has no
     segment and is located by ``point``. ``radius`` is the smallest radius of curvature (0 for a
     sharp corner). ``singular`` is True for sharp concave corners (unbounded elastic stress).
     """
 
     name: str
-    kind: str
+    kind: FeatureKind
     segments: tuple[tuple[int, int], ...]
     radius: float
     point: tuple[float, float]

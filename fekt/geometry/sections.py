@@ -1,7 +1,8 @@
-"""Exact cross-sections of a part normal to the load axis.
+"""Exact cuts through a part normal to the load axis (geometry only: the analysis model turns a cut
+into section properties, see :func:`fekt.models.base.section_of`).
 
 A cut is the straight line {x : x . axis = s}. Its intersections with every boundary segment are
-computed in closed form (line, circle, ellipse), so section widths carry no discretisation error.
+computed in closed form (line, circle, ellipse), so cut widths carry no discretisation error.
 Transverse coordinates are y' = x . e, with e = axis rotated +90 degrees.
 """
 
@@ -18,22 +19,13 @@ from .model import ARC, LINE, Feature, PartGeometry, Segment
 
 
 @dataclass(frozen=True)
-class Section:
-    """A cut through the part at axial position ``s``.
-
-    ``intervals``: material intervals in transverse coordinate y'; ``width`` is their total length;
-    ``area`` = width * thickness; ``yc`` the centroid's y'; ``inertia`` the second moment of area
-    about the centroid (bending in the plane); ``centroid`` the centroid's (x, y).
-    """
+class Cut:
+    """The material of the part on the line x . axis = ``s``: intervals of the transverse coordinate y'
+    and their total ``width``."""
 
     s: float
     intervals: tuple[tuple[float, float], ...]
     width: float
-    area: float
-    yc: float
-    inertia: float
-    centroid: tuple[float, float]
-    thickness: float
 
 
 def transverse(axis: np.ndarray) -> np.ndarray:
@@ -84,8 +76,7 @@ def _hits(seg: Segment, axis: np.ndarray, s: float) -> list[float]:
     return [float(ce + (-B - r) / (2 * A)), float(ce + (-B + r) / (2 * A))]
 
 
-def section_at(part: PartGeometry, axis: np.ndarray, s: float, thickness: float,
-               polygon: Polygon | None = None) -> Section:
+def section_at(part: PartGeometry, axis: np.ndarray, s: float, polygon: Polygon | None = None) -> Cut:
     """The cut of the part at axial position ``s``."""
     e = transverse(axis)
     ys: list[float] = []
@@ -109,21 +100,15 @@ def section_at(part: PartGeometry, axis: np.ndarray, s: float, thickness: float,
                 intervals[-1] = (intervals[-1][0], y1)
             else:
                 intervals.append((y0, y1))
-    return section_from_intervals(s, intervals, axis, thickness)
+    return cut_from_intervals(s, intervals)
 
 
-def section_from_intervals(s: float, intervals, axis: np.ndarray, thickness: float) -> Section:
+def cut_from_intervals(s: float, intervals) -> Cut:
     iv = np.array(intervals, dtype=float).reshape(-1, 2)
-    e = transverse(axis)
-    lengths = iv[:, 1] - iv[:, 0]
-    width = float(lengths.sum())
+    width = float((iv[:, 1] - iv[:, 0]).sum())
     if width <= 0:
-        return Section(s, (), 0.0, 0.0, 0.0, 0.0, (float("nan"), float("nan")), thickness)
-    yc = float(((iv[:, 1] ** 2 - iv[:, 0] ** 2) / 2).sum() / width)
-    inertia = float(thickness * ((iv[:, 1] - yc) ** 3 - (iv[:, 0] - yc) ** 3).sum() / 3)
-    c = s * axis + yc * e
-    return Section(s, tuple(map(tuple, iv.tolist())), width, width * thickness, yc, inertia,
-                   (float(c[0]), float(c[1])), thickness)
+        return Cut(s, (), 0.0)
+    return Cut(s, tuple(map(tuple, iv.tolist())), width)
 
 
 def part_polygon(part: PartGeometry) -> Polygon:
@@ -142,8 +127,7 @@ def feature_extent(part: PartGeometry, feature: Feature, axis: np.ndarray) -> tu
     return float(a.min()), float(a.max())
 
 
-def net_section(part: PartGeometry, feature: Feature, axis: np.ndarray, thickness: float,
-                polygon: Polygon | None = None) -> Section:
+def net_section(part: PartGeometry, feature: Feature, axis: np.ndarray, polygon: Polygon | None = None) -> Cut:
     """The shortest cut normal to the load axis through the feature.
 
     For a hole this is the cut through its centre, for a shoulder fillet the smaller width, for a
@@ -152,21 +136,21 @@ def net_section(part: PartGeometry, feature: Feature, axis: np.ndarray, thicknes
     poly = polygon if polygon is not None else part_polygon(part)
     lo, hi = feature_extent(part, feature, axis)
     if hi - lo <= 1e-12 * math.sqrt(poly.area):
-        return section_at(part, axis, lo, thickness, poly)
+        return section_at(part, axis, lo, poly)
     # stay strictly inside the extent: a cut exactly through an extreme point only grazes the feature
     pad = 1e-9 * (hi - lo)
     cands = np.linspace(lo + pad, hi - pad, 41)
     cands = np.append(cands, np.clip(np.array(feature.point) @ axis, lo + pad, hi - pad))
-    widths = np.array([section_at(part, axis, float(c), thickness, poly).width for c in cands])
+    widths = np.array([section_at(part, axis, float(c), poly).width for c in cands])
     k = int(np.argmin(widths[:-1]))
     best_s, best_w = float(cands[k]), float(widths[k])
     if widths[-1] < best_w:
         best_s, best_w = float(cands[-1]), float(widths[-1])
     a, b = cands[max(k - 1, 0)], cands[min(k + 1, 40)]
     if b > a:
-        res = minimize_scalar(lambda c: section_at(part, axis, float(c), thickness, poly).width,
+        res = minimize_scalar(lambda c: section_at(part, axis, float(c), poly).width,
                               bounds=(float(a), float(b)), method="bounded",
                               options={"xatol": 1e-10 * (hi - lo)})
         if res.fun < best_w:
             best_s = float(res.x)
-    return section_at(part, axis, best_s, thickness, poly)
+    return section_at(part, axis, best_s, poly)

@@ -3,7 +3,7 @@
 The geometry is built with OpenCASCADE without any boolean operation, so each gmsh curve maps to
 exactly one of our boundary segments (arcs are split into pieces of at most 90 degrees; all pieces
 map to the same segment). Boundary names are rebuilt from gmsh's line3 elements on each curve,
-because scikit-fem loses them for quadratic meshes (shared notes, library pitfalls A1-A2).
+because scikit-fem loses them for quadratic meshes (docs/pitfalls.md, A1-A2).
 """
 
 from __future__ import annotations
@@ -19,6 +19,7 @@ from skfem.mapping import MappingIsoparametric
 from ..case.schema import MeshSpec
 from ..errors import InputError, MeshError
 from ..geometry.model import ARC, ELLIPSE, LINE, PartGeometry
+from ..kinds import LoopKind
 from .session import gmsh_session
 
 
@@ -55,7 +56,9 @@ class PartMesh:
     """A quadratic mesh with every boundary facet tagged by the segment it lies on.
 
     ``boundary_facets``: skfem facet indices; ``facet_loop`` / ``facet_segment``: the (loop, segment)
-    each lies on. ``feature_sizes`` maps feature name to the element size requested there.
+    each lies on. ``boundaries`` maps a boundary name (an outline edge's name, a cut-out's name) to its
+    facets: loads, supports and peak exclusion refer to boundaries by name. ``feature_sizes`` maps
+    feature name to the element size requested there.
     """
 
     mesh: MeshTri2 | MeshTri1
@@ -70,8 +73,12 @@ class PartMesh:
     min_quality: float
     area: float
     seconds: float
-    gmsh_log: tuple[str, ...] = field(default=())
     warnings: tuple[str, ...] = field(default=())
+    boundaries: dict[str, np.ndarray] = field(default_factory=dict)
+
+    def facets(self, name: str) -> np.ndarray:
+        """The boundary facets of a named edge or cut-out."""
+        return self.boundaries[name]
 
     def facets_of(self, refs: list[tuple[int, int]]) -> np.ndarray:
         """Boundary facets lying on any of the given (loop, segment) pairs."""
@@ -130,7 +137,7 @@ def mesh_part(part: PartGeometry, spec: MeshSpec, *, order: int = 2, uniform: bo
 
     with gmsh_session() as gmsh:
         try:
-            mesh, bfac, bloop, bseg, minq, log = _build_and_mesh(gmsh, part, spec, sizes, size_max, order, uniform)
+            mesh, bfac, bloop, bseg, minq = _build_and_mesh(gmsh, part, spec, sizes, size_max, order, uniform)
         except (MeshError, InputError):
             raise
         except Exception as exc:  # gmsh reports its failures as plain exceptions
@@ -151,7 +158,26 @@ def mesh_part(part: PartGeometry, spec: MeshSpec, *, order: int = 2, uniform: bo
     return PartMesh(mesh=mesh, mapping=iso_mapping(mesh), boundary_facets=bfac, facet_loop=bloop,
                     facet_segment=bseg, warnings=tuple(warnings), feature_sizes=sizes, size_max=size_max, n_elements=mesh.t.shape[1],
                     n_nodes=mesh.doflocs.shape[1], min_quality=minq, area=area,
-                    seconds=time.perf_counter() - t0, gmsh_log=log)
+                    seconds=time.perf_counter() - t0,
+                    boundaries=named_boundaries(part, bfac, bloop, bseg))
+
+
+def named_boundaries(part: PartGeometry, bfac: np.ndarray, bloop: np.ndarray, bseg: np.ndarray) -> dict[str, np.ndarray]:
+    """Facets of every named outline edge and of every cut-out (by the cut-out's name)."""
+    names: dict[str, list[tuple[int, int]]] = {}
+    for li, loop in enumerate(part.loops):
+        for si, seg in enumerate(loop.segments):
+            if seg.edge:
+                names.setdefault(seg.edge, []).append((li, si))
+        if loop.kind == LoopKind.CUTOUT:
+            names.setdefault(loop.name, []).extend((li, si) for si in range(len(loop.segments)))
+    out = {}
+    for name, refs in names.items():
+        mask = np.zeros(bfac.size, dtype=bool)
+        for li, si in refs:
+            mask |= (bloop == li) & (bseg == si)
+        out[name] = bfac[mask]
+    return out
 
 
 def _build_and_mesh(gmsh, part: PartGeometry, spec: MeshSpec, sizes: dict[str, float], size_max: float,
@@ -183,7 +209,7 @@ def _build_and_mesh(gmsh, part: PartGeometry, spec: MeshSpec, sizes: dict[str, f
         # OCC wants every wire counter-clockwise (a clockwise hole wire adds its area instead of
         # removing it; checked on gmsh 4.15.2), so cut-outs are drawn in reverse
         seq = list(enumerate(loop.segments))
-        if loop.kind == "cutout":
+        if loop.kind == LoopKind.CUTOUT:
             seq = [(si, seg.reversed()) for si, seg in reversed(seq)]
         for si, seg in seq:
             tags = []
@@ -236,7 +262,7 @@ def _build_and_mesh(gmsh, part: PartGeometry, spec: MeshSpec, sizes: dict[str, f
             ctags = [t for ref in f.segments for t in seg_curves[ref]]
             length = sum(part.segment(ref).length() for ref in f.segments)
             gmsh.model.mesh.field.setNumbers(dist, "CurvesList", ctags)
-            # default Sampling (20 per curve) under-resolves long fine curves (pitfalls C2)
+            # default Sampling (20 per curve) under-resolves long fine curves (docs/pitfalls.md, C2)
             gmsh.model.mesh.field.setNumber(dist, "Sampling", int(min(max(20, 2 * length / h), 20000)))
         else:
             ptag = _find_point(gmsh, f.point)
@@ -254,23 +280,21 @@ def _build_and_mesh(gmsh, part: PartGeometry, spec: MeshSpec, sizes: dict[str, f
         gmsh.model.mesh.field.setNumbers(mn, "FieldsList", fields)
         gmsh.model.mesh.field.setAsBackgroundMesh(mn)
     opt = gmsh.option.setNumber
-    # let the field govern (pitfalls C3); curvature keeps convex arcs round (16 per full turn)
+    # let the field govern (docs/pitfalls.md, C3); curvature keeps convex arcs round (16 per full turn)
     opt("Mesh.MeshSizeExtendFromBoundary", 0)
     opt("Mesh.MeshSizeFromPoints", 0)
     opt("Mesh.MeshSizeFromCurvature", 16)
     opt("Mesh.MeshSizeMax", size_max)
     opt("Mesh.MeshSizeMin", 0.0)
-    opt("Mesh.Algorithm", 6)
-    opt("Mesh.SecondOrderLinear", 0)  # midside nodes on the CAD curves (pitfalls C4)
+    opt("Mesh.Algorithm", 6)  # "Frontal-Delaunay" (gmsh manual, Mesh.Algorithm)
+    opt("Mesh.SecondOrderLinear", 0)  # midside nodes on the CAD curves (docs/pitfalls.md, C4)
     opt("Mesh.HighOrderOptimize", 0)
     gmsh.model.mesh.generate(2)
     for _ in range(spec.refine):
-        gmsh.model.mesh.refine()  # nested split; new boundary nodes snap to the curves (pitfalls F2)
+        gmsh.model.mesh.refine()  # nested split; new boundary nodes snap to the curves (docs/pitfalls.md, F2)
     if order == 2:
         gmsh.model.mesh.setOrder(2)
-    mesh, bfac, bloop, bseg, minq = _extract(gmsh, curve_ref, order)
-    log = tuple(gmsh.logger.get())
-    return mesh, bfac, bloop, bseg, minq, log
+    return _extract(gmsh, curve_ref, order)
 
 
 #: a ligament narrower than this many local elements is resolved too coarsely to trust (our own rule)
@@ -310,7 +334,7 @@ def _find_point(gmsh, xy) -> int:
 
 
 def _extract(gmsh, curve_ref: dict[int, tuple[int, int]], order: int = 2):
-    """Read the quadratic mesh from the live gmsh model (pitfalls A2) and tag boundary facets."""
+    """Read the quadratic mesh from the live gmsh model (docs/pitfalls.md, A2) and tag boundary facets."""
     tri_type = gmsh.model.mesh.getElementType("Triangle", order)
     line_type = gmsh.model.mesh.getElementType("Line", order)
     npe = 6 if order == 2 else 3
@@ -324,7 +348,7 @@ def _extract(gmsh, curve_ref: dict[int, tuple[int, int]], order: int = 2):
     minq = float(np.min(qual))
     if minq <= 0:
         raise MeshError(f"the mesh has inverted or degenerate elements (min scaled Jacobian {minq:.3g})")
-    # compact: keep only nodes used by triangles (drops free helper points, pitfalls A2)
+    # compact: keep only nodes used by triangles (drops free helper points, docs/pitfalls.md A2)
     lookup = np.full(int(node_tags.max()) + 1, -1, dtype=np.int64)
     lookup[node_tags.astype(np.int64)] = np.arange(node_tags.size)
     tri_idx = lookup[tri]
@@ -334,7 +358,7 @@ def _extract(gmsh, curve_ref: dict[int, tuple[int, int]], order: int = 2):
     t6 = compact[tri_idx].T  # (6, nel): corners then midsides 01, 12, 20 (same order as skfem)
     p = xy[used].T
     mesh = (MeshTri2 if order == 2 else MeshTri1)(np.ascontiguousarray(p), np.ascontiguousarray(t6))
-    # skfem renumbers corners as np.unique(t[:3]) -> arange (pitfalls A1)
+    # skfem renumbers corners as np.unique(t[:3]) -> arange (docs/pitfalls.md, A1)
     corner_ids = np.unique(t6[:3])
     facets = np.sort(mesh.facets, axis=0)
     nv = np.int64(mesh.nvertices)

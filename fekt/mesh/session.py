@@ -17,7 +17,7 @@ def gmsh_session(verbose: bool = False) -> Iterator[object]:
 
     ``readConfigFiles=False`` keeps user config out of results; ``interruptible=False`` avoids the
     "signal only works in main thread" failure when called off the main thread
-    (shared notes, library pitfalls C5).
+    (docs/pitfalls.md, C5).
     """
     if gmsh.isInitialized():
         raise RuntimeError("gmsh is already open in this process; fekt opens it in one place only")

@@ -1,24 +1,27 @@
 """Stress sampling: on the boundary at facet Gauss points, and at arbitrary interior points.
 
 Boundary peaks are read at facet Gauss points on the curved mesh: nodal averaging and global
-projection underestimate peaks 10-30x more (shared notes, library pitfalls E, measured on the exact
-Kirsch problem).
+projection underestimate peaks 10-30x more (measured on the exact Kirsch problem; docs/pitfalls.md).
+Stresses come from the analysis model (:mod:`fekt.models`); every load component is sampled on its
+own, and a load case is their weighted sum.
 """
 
 from __future__ import annotations
 
+from collections.abc import Mapping
 from dataclasses import dataclass
 
 import numpy as np
 from scipy.spatial import cKDTree
-from skfem import FacetBasis
+from skfem import ElementTriP2, FacetBasis
 
 from ..errors import SolveError
 from ..geometry.model import PartGeometry
 from ..mesh.build import PartMesh
-from ..solver.elasticity import ElasticSolution, stress_from_grad
+from ..models.base import Stress, add_stresses, in_plane_principal
+from ..solver.linear import Solution
 
-#: facet quadrature order for boundary stress (>= 5 per shared notes E)
+#: facet quadrature order for boundary stress (>= 5: docs/pitfalls.md, peak-stress recovery)
 BOUNDARY_INTORDER = 5
 
 
@@ -27,46 +30,55 @@ class BoundarySamples:
     """Stress at facet Gauss points along every boundary loop, sorted by loop then arc length.
 
     ``s`` is the arc-length coordinate along the loop (direction of travel, material on the left);
-    ``stt`` the tangential stress, ``s1``/``s2`` the in-plane principal stresses.
+    ``normal`` the outward unit normal; ``components`` the stress of each load component and ``stress``
+    that of the load case the samples were combined for; ``stt`` the tangential stress, ``snn`` the
+    normal stress, ``s1``/``s2`` the in-plane principal stresses of the load case.
     """
 
     xy: np.ndarray
     loop: np.ndarray
     segment: np.ndarray
     s: np.ndarray
-    sxx: np.ndarray
-    syy: np.ndarray
-    sxy: np.ndarray
+    normal: np.ndarray
+    components: Mapping[str, Stress]
+    stress: Stress
     stt: np.ndarray
     snn: np.ndarray
     s1: np.ndarray
     s2: np.ndarray
-    facet: np.ndarray
 
 
-def principal(sxx, syy, sxy):
-    c = 0.5 * (sxx + syy)
-    r = np.sqrt((0.5 * (sxx - syy)) ** 2 + sxy ** 2)
-    return c + r, c - r
+def surface_stresses(stress: Stress, normal: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """(tangential, normal) in-plane normal stress at boundary points with outward normals (2, n)."""
+    tx, ty = -normal[1], normal[0]  # tangent in the direction of travel (material on the left)
+    stt = stress.xx * tx * tx + 2 * stress.xy * tx * ty + stress.yy * ty * ty
+    snn = stress.xx * normal[0] ** 2 + 2 * stress.xy * normal[0] * normal[1] + stress.yy * normal[1] ** 2
+    return stt, snn
 
 
-def boundary_samples(sol: ElasticSolution, pmesh: PartMesh, part: PartGeometry) -> BoundarySamples:
+def boundary_samples(sol: Solution, pmesh: PartMesh, part: PartGeometry,
+                     factors: Mapping[str, float] | None = None) -> BoundarySamples:
+    """Sample every load component on the boundary; the load case is ``factors`` (component name ->
+    factor; default every component with factor 1)."""
     mesh = pmesh.mesh
-    fb = FacetBasis(mesh, sol.basis.elem, facets=pmesh.boundary_facets, intorder=BOUNDARY_INTORDER,
-                     mapping=pmesh.mapping)
-    grad = np.asarray(fb.interpolate(sol.u).grad)  # (2, 2, nf, nq)
-    x = np.asarray(fb.global_coordinates())  # (2, nf, nq)
-    n = np.asarray(fb.normals)  # outward unit normals
-    sxx, syy, sxy = stress_from_grad(grad, sol.lam, sol.mu)
-    tx, ty = -n[1], n[0]  # tangent in the direction of travel (material on the left)
-    stt = sxx * tx * tx + 2 * sxy * tx * ty + syy * ty * ty
-    snn = sxx * n[0] ** 2 + 2 * sxy * n[0] * n[1] + syy * n[1] ** 2
+    comps: dict[str, Stress] = {}
+    x = n = None
+    for name, system in sol.systems.items():
+        fb = FacetBasis(mesh, system.basis.elem, facets=pmesh.boundary_facets, intorder=BOUNDARY_INTORDER,
+                        mapping=pmesh.mapping)
+        if x is None:
+            x = np.asarray(fb.global_coordinates())  # (2, nf, nq)
+            n = np.asarray(fb.normals)  # outward unit normals
+        op = sol.model.operator(name)
+        for f in sol.fields:
+            if f.component.operator == name:
+                comps[f.component.name] = op.stress(fb.interpolate(f.u), x, sol.E, sol.nu).flat()
     nq = x.shape[2]
-    # fb.find orders facets as given; map each to its (loop, segment)
+    # fb orders facets as given; map each to its (loop, segment)
     loop = np.repeat(pmesh.facet_loop, nq)
     seg = np.repeat(pmesh.facet_segment, nq)
-    facet = np.repeat(pmesh.boundary_facets, nq)
     X = x.reshape(2, -1)
+    N = n.reshape(2, -1)
     s = np.empty(X.shape[1])
     for li, lp in enumerate(part.loops):
         offs = np.concatenate([[0.0], np.cumsum(lp.lengths())])
@@ -75,22 +87,58 @@ def boundary_samples(sol: ElasticSolution, pmesh: PartMesh, part: PartGeometry) 
             if m.any():
                 s[m] = offs[si] + sg.parameter(X[:, m]) * sg.length()
     order = np.lexsort((s, loop))
-    flat = [a.reshape(-1)[order] for a in (sxx, syy, sxy, stt, snn)]
-    s1, s2 = principal(flat[0], flat[1], flat[2])
-    return BoundarySamples(xy=X[:, order], loop=loop[order], segment=seg[order], s=s[order],
-                           sxx=flat[0], syy=flat[1], sxy=flat[2], stt=flat[3], snn=flat[4],
-                           s1=s1, s2=s2, facet=facet[order])
+    comps = {k: v.take(order) for k, v in comps.items()}
+    weights = factors if factors is not None else {k: 1.0 for k in comps}
+    stress = combine(comps, weights)
+    normal = N[:, order]
+    stt, snn = surface_stresses(stress, normal)
+    s1, s2 = in_plane_principal(stress.xx, stress.yy, stress.xy)
+    return BoundarySamples(xy=X[:, order], loop=loop[order], segment=seg[order], s=s[order], normal=normal,
+                           components=comps, stress=stress, stt=stt, snn=snn, s1=s1, s2=s2)
+
+
+def combine(components: Mapping[str, Stress], factors: Mapping[str, float]) -> Stress:
+    """The stress of a load case: the components' stresses times their factors."""
+    parts = [(float(factors[k]), components[k]) for k in components if factors.get(k, 0.0) != 0.0]
+    if not parts:
+        first = next(iter(components.values()))
+        return first.scaled(0.0)
+    if len(parts) == 1 and parts[0][0] == 1.0:
+        return parts[0][1]
+    return add_stresses(parts)
+
+
+def corner_stress(sol: Solution, pmesh: PartMesh, factors: Mapping[str, float] | None = None) -> Stress:
+    """Stress of a load case at the three corners of every element, element by element (not averaged;
+    arrays of shape (elements, 3)), for drawing the field."""
+    from skfem import Basis
+
+    corners = np.array([[0.0, 1.0, 0.0], [0.0, 0.0, 1.0]])
+    comps = {}
+    for name, system in sol.systems.items():
+        b = Basis(pmesh.mesh, system.basis.elem, quadrature=(corners, np.ones(3) / 6), mapping=pmesh.mapping)
+        x = np.asarray(b.global_coordinates())
+        op = sol.model.operator(name)
+        for f in sol.fields:
+            if f.component.operator == name:
+                comps[f.component.name] = op.stress(b.interpolate(f.u), x, sol.E, sol.nu)
+    weights = factors if factors is not None else {k: 1.0 for k in comps}
+    return combine(comps, weights)
 
 
 # --- interior probes -----------------------------------------------------------------------------
 
+_P2 = ElementTriP2()
+
+
 def _p2_shape(xi: np.ndarray, eta: np.ndarray):
-    """P2 shape functions and reference derivatives in skfem's ElementTriP2 order."""
-    N = np.stack([1 - 3 * xi - 3 * eta + 2 * xi ** 2 + 4 * xi * eta + 2 * eta ** 2,
-                  2 * xi ** 2 - xi, 2 * eta ** 2 - eta,
-                  4 * xi - 4 * xi ** 2 - 4 * xi * eta, 4 * xi * eta, 4 * eta - 4 * xi * eta - 4 * eta ** 2])
-    dxi = np.stack([-3 + 4 * xi + 4 * eta, 4 * xi - 1, 0 * xi, 4 - 8 * xi - 4 * eta, 4 * eta, -4 * eta])
-    deta = np.stack([-3 + 4 * xi + 4 * eta, 0 * xi, 4 * eta - 1, -4 * xi, 4 * xi, 4 - 4 * xi - 8 * eta])
+    """The six quadratic shape functions and their reference derivatives (scikit-fem's ElementTriP2,
+    the isoparametric map of the curved six-node triangles; used to locate points)."""
+    X = np.stack([xi.ravel(), eta.ravel()])
+    vals = [_P2.lbasis(X, i) for i in range(6)]
+    N = np.stack([v.reshape(xi.shape) for v, _ in vals])
+    dxi = np.stack([g[0].reshape(xi.shape) for _, g in vals])
+    deta = np.stack([g[1].reshape(xi.shape) for _, g in vals])
     return N, dxi, deta
 
 
@@ -98,7 +146,8 @@ def locate(mesh, points: np.ndarray, k: int = 10) -> tuple[np.ndarray, np.ndarra
     """Element index and reference coordinates (2, n) of each point on the curved P2 mesh.
 
     Newton iteration on the isoparametric map over the k elements with the nearest centroids; a point
-    belongs to the first candidate whose reference coordinates lie in the triangle."""
+    belongs to the first candidate whose reference coordinates lie in the triangle. (scikit-fem has no
+    point location on quadratic meshes: docs/pitfalls.md.)"""
     edofs = mesh.dofs.element_dofs  # (6, nel) indices into doflocs
     nodes = mesh.doflocs[:, edofs]  # (2, 6, nel)
     tree = cKDTree(nodes.mean(axis=1).T)
@@ -145,25 +194,43 @@ def locate(mesh, points: np.ndarray, k: int = 10) -> tuple[np.ndarray, np.ndarra
     return cells, ref
 
 
-def probe_stress(sol: ElasticSolution, points: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-    """(sxx, syy, sxy) at interior points (2, n)."""
-    basis = sol.basis
-    cells, ref = locate(basis.mesh, points)
-    X = ref[:, :, None]
-    grad = np.zeros((2, 2, points.shape[1]))
-    for k in range(basis.Nbfun):
-        g = np.asarray(basis.elem.gbasis(basis.mapping, X, k, tind=cells)[0].grad)[..., 0]
-        grad += g * sol.u[basis.element_dofs[k, cells]]
-    return stress_from_grad(grad, sol.lam, sol.mu)
+@dataclass(frozen=True)
+class PointField:
+    """A solved field evaluated at points: ``value`` (components, n) and ``grad`` (components, 2, n), the
+    shape scikit-fem's DiscreteField has, so a model's ``stress`` accepts either."""
+
+    value: np.ndarray
+    grad: np.ndarray
 
 
-def probe_displacement(sol: ElasticSolution, points: np.ndarray) -> np.ndarray:
-    """Displacement (2, n) at interior points."""
-    basis = sol.basis
-    cells, ref = locate(basis.mesh, points)
+def point_field(sol: Solution, operator: str, u: np.ndarray, cells: np.ndarray, ref: np.ndarray) -> PointField:
+    basis = sol.basis(operator)
     X = ref[:, :, None]
-    u = np.zeros((2, points.shape[1]))
+    value = grad = None
     for k in range(basis.Nbfun):
-        v = np.asarray(basis.elem.gbasis(basis.mapping, X, k, tind=cells)[0])[..., 0]
-        u += v * sol.u[basis.element_dofs[k, cells]]
-    return u
+        phi = basis.elem.gbasis(basis.mapping, X, k, tind=cells)[0]
+        coef = u[basis.element_dofs[k, cells]]
+        v = np.asarray(phi)[..., 0] * coef  # a DiscreteField is its own value
+        g = np.asarray(phi.grad)[..., 0] * coef
+        value = v if value is None else value + v
+        grad = g if grad is None else grad + g
+    return PointField(value, grad)
+
+
+def probe_stress(sol: Solution, points: np.ndarray, factors: Mapping[str, float] | None = None) -> Stress:
+    """Stress of a load case (default: every component with factor 1) at interior points (2, n)."""
+    mesh = next(iter(sol.systems.values())).basis.mesh
+    cells, ref = locate(mesh, points)
+    weights = factors if factors is not None else {f.component.name: 1.0 for f in sol.fields}
+    comps = {}
+    for f in sol.fields:
+        op = sol.model.operator(f.component.operator)
+        comps[f.component.name] = op.stress(point_field(sol, op.name, f.u, cells, ref), points, sol.E, sol.nu)
+    return combine(comps, weights)
+
+
+def probe_displacement(sol: Solution, points: np.ndarray, component: str | None = None) -> np.ndarray:
+    """Displacement (2, n) of one load component (default: the first) at interior points."""
+    f = sol.field(component) if component else sol.fields[0]
+    cells, ref = locate(sol.basis(f.component.operator).mesh, points)
+    return point_field(sol, f.component.operator, f.u, cells, ref).value

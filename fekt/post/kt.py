@@ -1,13 +1,14 @@
-"""Net section, nominal stress by beam theory, Kt, and the equilibrium check on each net section.
+"""Nominal stress on a section, Kt, and the equilibrium check on each net section.
 
-Conventions (documented in docs/conventions.md):
-* net section: the shortest cut normal to the load axis through the feature that owns the hot spot
-  (geometry.sections.net_section); for a hot spot with no feature, the cut through the hot spot;
-* resultants on a cut from statics of the applied loads (solver.loads.LoadState.resultants);
-* sigma_nom = N / A + M (y - yc) / I, with y the hot spot's transverse coordinate clamped to the
-  section's extent (so a fillet or notch-root hot spot uses the outer fibre of the net section);
+Conventions (docs/conventions.md):
+* net section: the shortest cut normal to the load axis through the feature that owns the peak
+  (geometry.sections.net_section); for a peak with no feature, the cut through the peak;
+* resultants on a cut from statics of the applied loads (each load component's ``statics``);
+* the nominal stress is the model's formula (beam theory for plates: sigma_nom = N / A + M (y - yc) / I),
+  with y the peak's transverse coordinate clamped to the section's extent (so a fillet or notch-root
+  peak uses the outer fibre of the net section);
 * Kt_net = sigma_peak / sigma_nom(net); Kt_gross likewise on the gross section, which is the larger
-  of the two loaded end sections, carried to the hot spot's position.
+  of the two loaded end sections, carried to the peak's position.
 """
 
 from __future__ import annotations
@@ -17,70 +18,85 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..errors import SolveError
-from ..geometry.sections import Section, transverse
-from ..solver.elasticity import ElasticSolution
-from ..solver.loads import LoadState
+from ..geometry.sections import transverse
+from ..loads.base import Applied
+from ..models.base import Model, Resultants, Section
+from ..solver.linear import Solution
 from .fields import probe_stress
 
-#: relative tolerance of the equilibrium check on each net section (issue requirement: 0.5 %)
+#: relative tolerance of the equilibrium check on each net section (our own requirement: 0.5 %)
 EQUILIBRIUM_TOLERANCE = 0.005
+#: a nominal stress below this fraction of the section's stress scale counts as zero (no Kt there;
+#: our own threshold: a peak on the neutral axis of a bent section)
+NOMINAL_ZERO = 1e-6
+#: Gauss-Legendre integration of the FE stress over a cut: sub-intervals per material interval and
+#: points per sub-interval (our own choice: the equilibrium errors it reports do not change when doubled)
+CUT_SUBINTERVALS = 96
+CUT_GAUSS_POINTS = 4
 
 
 @dataclass(frozen=True)
 class Nominal:
     section: Section
-    N: float
-    M: float
+    resultants: Resultants
     y: float  # transverse coordinate where sigma_nom is evaluated
     sigma: float
 
+    @property
+    def N(self) -> float:
+        return self.resultants.N
 
-def nominal_stress(section: Section, loads: LoadState, y_hot: float) -> Nominal:
-    N, M = loads.resultants(section)
+    @property
+    def M(self) -> float:
+        return self.resultants.M
+
+
+def nominal_stress(model: Model, section: Section, resultants: Resultants, y_peak: float) -> Nominal:
     lo = min(a for a, _ in section.intervals)
     hi = max(b for _, b in section.intervals)
-    y = float(np.clip(y_hot, lo, hi))
-    sigma = N / section.area + (M * (y - section.yc) / section.inertia if section.inertia > 0 else 0.0)
-    return Nominal(section, N, M, y, sigma)
+    y = float(np.clip(y_peak, lo, hi))
+    return Nominal(section, resultants, y, model.nominal(resultants, section.props, y))
 
 
 def kt(peak: float, nominal: Nominal) -> float | None:
-    """Kt = peak / nominal, or None when the nominal stress vanishes (e.g. hot spot on the neutral axis)."""
+    """Kt = peak / nominal, or None when the nominal stress vanishes (e.g. a peak on the neutral axis)."""
     sec = nominal.section
     half = 0.5 * sec.width
     scale = abs(nominal.N) / sec.area + (abs(nominal.M) * half / sec.inertia if sec.inertia > 0 else 0.0)
-    if scale == 0 or abs(nominal.sigma) < 1e-6 * scale:
+    if scale == 0 or abs(nominal.sigma) < NOMINAL_ZERO * scale:
         return None
     return peak / nominal.sigma
 
 
-def gross_section(loads: LoadState) -> tuple[str, Section]:
-    e1, e2 = loads.ends
+def gross_section(applied: Applied) -> tuple[str, Section]:
+    """The larger of the two loaded end sections (its name and section)."""
+    e1, e2 = applied.ends
     return (e1.name, e1.section) if e1.section.area >= e2.section.area else (e2.name, e2.section)
 
 
 @dataclass(frozen=True)
 class EquilibriumCheck:
-    N_fe: float
-    M_fe: float
-    N: float
-    M: float
+    fe: Resultants
+    statics: Resultants
     error_N: float  # relative to the section's force scale
     error_M: float
 
     @property
     def ok(self) -> bool:
-        return max(self.error_N, self.error_M) <= EQUILIBRIUM_TOLERANCE
+        return self.error <= EQUILIBRIUM_TOLERANCE
+
+    @property
+    def error(self) -> float:
+        return max(self.error_N, self.error_M)
 
 
-def section_resultants_fe(sol: ElasticSolution, section: Section, axis: np.ndarray,
-                          n_sub: int = 96, n_gauss: int = 4) -> tuple[float, float]:
-    """(N, M) from integrating the FE axial stress over the cut (Gauss-Legendre on sub-intervals)."""
+def section_resultants_fe(sol: Solution, section: Section, axis: np.ndarray, thickness: float) -> Resultants:
+    """Resultants from integrating the FE stress over the cut (Gauss-Legendre on sub-intervals)."""
     e = transverse(axis)
-    g, w = np.polynomial.legendre.leggauss(n_gauss)
+    g, w = np.polynomial.legendre.leggauss(CUT_GAUSS_POINTS)
     ys, ws = [], []
     for a, b in section.intervals:
-        edges = np.linspace(a, b, n_sub + 1)
+        edges = np.linspace(a, b, CUT_SUBINTERVALS + 1)
         mid = 0.5 * (edges[:-1] + edges[1:])
         half = 0.5 * (edges[1:] - edges[:-1])
         ys.append((mid[:, None] + half[:, None] * g[None, :]).ravel())
@@ -88,27 +104,24 @@ def section_resultants_fe(sol: ElasticSolution, section: Section, axis: np.ndarr
     y = np.concatenate(ys)
     wt = np.concatenate(ws)
     pts = section.s * axis[:, None] + y[None, :] * e[:, None]
-    sxx, syy, sxy = probe_stress(sol, pts)
-    saa = sxx * axis[0] ** 2 + 2 * sxy * axis[0] * axis[1] + syy * axis[1] ** 2
-    h = section.thickness
-    return float(h * np.sum(wt * saa)), float(h * np.sum(wt * saa * (y - section.yc)))
+    return sol.model.cut_resultants(probe_stress(sol, pts), axis, y, wt, section.yc, thickness)
 
 
-def check_equilibrium(sol: ElasticSolution, section: Section, loads: LoadState) -> EquilibriumCheck:
-    axis = np.array(loads.axis)
-    N, M = loads.resultants(section)
-    N_fe, M_fe = section_resultants_fe(sol, section, axis)
+def check_equilibrium(sol: Solution, section: Section, applied: Applied, thickness: float) -> EquilibriumCheck:
+    axis = np.array(applied.axis)
+    st = applied.resultants(section)
+    fe = section_resultants_fe(sol, section, axis, thickness)
     c = 0.5 * section.width
     # scales: the larger of the axial and the bending contributions, as force and as moment
-    f_scale = max(abs(N), abs(M) * c / section.inertia * section.area if section.inertia else 0.0, 1e-300)
-    m_scale = max(abs(M), abs(N) * section.inertia / (c * section.area) if section.area else 0.0, 1e-300)
-    return EquilibriumCheck(N_fe, M_fe, N, M, abs(N_fe - N) / f_scale, abs(M_fe - M) / m_scale)
+    f_scale = max(abs(st.N), abs(st.M) * c / section.inertia * section.area if section.inertia else 0.0, 1e-300)
+    m_scale = max(abs(st.M), abs(st.N) * section.inertia / (c * section.area) if section.area else 0.0, 1e-300)
+    return EquilibriumCheck(fe, st, abs(fe.N - st.N) / f_scale, abs(fe.M - st.M) / m_scale)
 
 
 def require_equilibrium(check: EquilibriumCheck, where: str) -> None:
     if not check.ok:
         raise SolveError(
-            f"equilibrium check failed on the net section of {where}: FE gives N = {check.N_fe:.6g}, "
-            f"M = {check.M_fe:.6g}; statics give N = {check.N:.6g}, M = {check.M:.6g} "
+            f"equilibrium check failed on the net section of {where}: FE gives N = {check.fe.N:.6g}, "
+            f"M = {check.fe.M:.6g}; statics give N = {check.statics.N:.6g}, M = {check.statics.M:.6g} "
             f"(errors {check.error_N:.2%}, {check.error_M:.2%}; limit {EQUILIBRIUM_TOLERANCE:.1%}); "
             "the mesh is too coarse on this section or the loads are not what they should be")

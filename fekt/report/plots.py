@@ -1,7 +1,7 @@
-"""Figures for a solve: outline, mesh near the hot spots, maximum principal stress field.
+"""Figures for a solve: outline, mesh near the stress peaks, maximum principal stress field.
 
 Our look: a perceptually uniform colormap (cividis: readable in greyscale and by colour-blind
-readers), a continuous colour bar with a labelled unit, hot spots as numbered open circles and net
+readers), a continuous colour bar with a labelled unit, stress peaks as numbered open circles and net
 sections as dashed lines. matplotlib is imported lazily so the library never pays for it.
 """
 
@@ -9,51 +9,37 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..solver.elasticity import stress_from_grad
-
-
-def _principal_at_vertices(solved):
-    """Max principal stress per element at its corners (element values, not averaged)."""
-    from skfem import Basis
-
-    sol = solved.solution
-    mesh = solved.pmesh.mesh
-    X = np.array([[0.0, 1.0, 0.0], [0.0, 0.0, 1.0]])
-    b = Basis(mesh, sol.basis.elem, quadrature=(X, np.ones(3) / 6), mapping=solved.pmesh.mapping)
-    grad = np.asarray(b.interpolate(sol.u).grad)
-    sxx, syy, sxy = stress_from_grad(grad, sol.lam, sol.mu)
-    c = 0.5 * (sxx + syy)
-    return c + np.sqrt((0.5 * (sxx - syy)) ** 2 + sxy ** 2)  # (nel, 3)
+from ..models.base import in_plane_principal
+from ..post.fields import corner_stress
 
 
 def write_figure(solved, path: str) -> None:
-    import matplotlib
-
-    matplotlib.use("Agg")
-    import matplotlib.pyplot as plt
     from matplotlib.collections import LineCollection, PolyCollection
+    from matplotlib.figure import Figure
     from matplotlib.tri import Triangulation
 
     r = solved.result
     mesh = solved.pmesh.mesh
-    s1 = _principal_at_vertices(solved)
+    st = corner_stress(solved.solution, solved.pmesh)
+    s1, _ = in_plane_principal(st.xx, st.yy, st.xy)  # (elements, 3)
     # split each P2 triangle into its corners for display (element values, unaveraged)
     p = mesh.p[:, : mesh.nvertices]
     tri = mesh.t.T
     xs = p[0, tri].ravel()
     ys = p[1, tri].ravel()
     T = Triangulation(xs, ys, np.arange(xs.size).reshape(-1, 3))
-    fig, axes = plt.subplots(1, 2, figsize=(13, 5.2), gridspec_kw={"width_ratios": [2.2, 1]})
+    fig = Figure(figsize=(13, 5.2))
+    axes = fig.subplots(1, 2, gridspec_kw={"width_ratios": [2.2, 1]})
     ax = axes[0]
     vmax = float(np.max(s1))
     vmin = float(min(np.min(s1), 0.0))
     tpc = ax.tripcolor(T, s1.ravel(), shading="gouraud", cmap="cividis", vmin=vmin, vmax=vmax)
     cb = fig.colorbar(tpc, ax=ax, shrink=0.85)
-    cb.set_label(f"maximum principal stress [{r.units['stress']}]")
+    cb.set_label(f"maximum principal stress [{r.units.stress}]")
     _outline(ax, solved, LineCollection)
-    axis = np.array(r.load["axis"])
+    axis = np.array(r.load.axis)
     e = np.array([-axis[1], axis[0]])
-    for h in r.hot_spots:
+    for h in r.peaks:
         ax.plot(h.x, h.y, "o", mfc="none", mec="white", mew=2.2, ms=11)
         ax.plot(h.x, h.y, "o", mfc="none", mec="black", mew=1.0, ms=11)
         ax.annotate(str(h.rank), (h.x, h.y), xytext=(7, 7), textcoords="offset points", fontsize=10,
@@ -64,16 +50,16 @@ def write_figure(solved, path: str) -> None:
             ax.plot([p0[0], p1[0]], [p0[1], p1[1]], "--", color="white", lw=1.4)
             ax.plot([p0[0], p1[0]], [p0[1], p1[1]], ":", color="black", lw=1.0)
     ax.set_aspect("equal")
-    ax.set_xlabel(f"x [{r.units['length']}]")
-    ax.set_ylabel(f"y [{r.units['length']}]")
+    ax.set_xlabel(f"x [{r.units.length}]")
+    ax.set_ylabel(f"y [{r.units.length}]")
     title = f"{r.case_name}: maximum principal stress"
     if r.demo:
         title += " (demo data)"
     ax.set_title(title, fontsize=11)
-    # zoom on the top hot spot: the mesh there
+    # zoom on the top stress peak: the mesh there
     ax2 = axes[1]
-    if r.hot_spots:
-        h = r.hot_spots[0]
+    if r.peaks:
+        h = r.peaks[0]
         span = max(8 * h.element_size, 3 * (h.radius if np.isfinite(h.radius) and h.radius > 0 else h.element_size))
         polys = p[:, tri].transpose(1, 2, 0)  # (elements, 3 corners, xy)
         ax2.add_collection(PolyCollection(polys, facecolors="none", edgecolors="0.35", linewidths=0.5))
@@ -82,13 +68,12 @@ def write_figure(solved, path: str) -> None:
         ax2.set_xlim(h.x - span, h.x + span)
         ax2.set_ylim(h.y - span, h.y + span)
         ax2.set_aspect("equal")
-        ax2.set_title(f"mesh at hot spot 1 ({h.feature})", fontsize=10)
-        ax2.set_xlabel(f"x [{r.units['length']}]")
+        ax2.set_title(f"mesh at stress peak 1 ({h.feature})", fontsize=10)
+        ax2.set_xlabel(f"x [{r.units.length}]")
     fig.text(0.01, 0.01, "Linear-elastic 2D idealisation; check against applicable codes and licensed "
              "engineering practice.", fontsize=8, color="0.3")
     fig.tight_layout(rect=(0, 0.03, 1, 1))
     fig.savefig(path, dpi=130)
-    plt.close(fig)
 
 
 def _outline(ax, solved, LineCollection) -> None:

@@ -5,7 +5,71 @@ Formats numbers computed in :mod:`fekt.studies.sweep`; computes none (the plot o
 
 from __future__ import annotations
 
-from .text import _num, _table
+import json
+import math
+import os
+from collections.abc import Mapping, Sequence
+
+from ..studies.sweep import COLUMNS, PointResult
+from .files import write_text
+from .text import num, table
+
+
+class SweepFiles:
+    """``points.jsonl`` (one JSON object per finished point, appended and flushed as it finishes) and
+    ``sweep.csv`` (rewritten atomically from it); the JSONL is what ``--resume`` reads."""
+
+    def __init__(self, folder: str, names: Sequence[str]):
+        self.folder = folder
+        self.names = list(names)
+        self.jsonl = os.path.join(folder, "points.jsonl")
+        self.csv = os.path.join(folder, "sweep.csv")
+
+    def finished(self, points: Sequence[dict[str, float]]) -> dict[int, PointResult]:
+        """Points already in the folder whose parameter values match this sweep's."""
+        done: dict[int, PointResult] = {}
+        if not os.path.exists(self.jsonl):
+            return done
+        with open(self.jsonl, encoding="utf-8") as fh:
+            for line in fh:
+                line = line.strip()
+                if not line:
+                    continue
+                try:
+                    d = json.loads(line)
+                except json.JSONDecodeError:
+                    continue  # a line cut short by an interrupt: that point is computed again
+                i = d.get("index")
+                if isinstance(i, int) and 0 <= i < len(points) and _same(d.get("values", {}), points[i]):
+                    done[i] = PointResult(**d)
+        return done
+
+    def append(self, r: PointResult) -> None:
+        with open(self.jsonl, "a", encoding="utf-8") as fh:
+            fh.write(json.dumps(r.to_json(), allow_nan=False) + "\n")
+            fh.flush()
+            os.fsync(fh.fileno())
+
+    def write_csv(self, results: Sequence[PointResult]) -> None:
+        import csv
+        import io
+
+        buf = io.StringIO()
+        w = csv.writer(buf)
+        w.writerow(["index", *self.names, *COLUMNS[1:]])
+        for r in sorted(results, key=lambda r: r.index):
+            d = r.to_json()
+            w.writerow([r.index, *(repr(r.values[n]) for n in self.names),
+                        *("" if d[c] is None else d[c] for c in COLUMNS[1:])])
+        write_text(self.csv, buf.getvalue())
+
+
+def _same(a: Mapping[str, float], b: Mapping[str, float]) -> bool:
+    return set(a) == set(b) and all(math.isclose(a[k], b[k], rel_tol=1e-12, abs_tol=1e-15) for k in b)
+
+
+
+
 
 
 def format_sweep(results, names, basis: str, fit=None) -> str:
@@ -14,11 +78,11 @@ def format_sweep(results, names, basis: str, fit=None) -> str:
     for r in results:
         kt = getattr(r, key)
         band = getattr(r, f"{key}_band")
-        rows.append([str(r.index), *(_num(r.values[n], 6) for n in names), r.status,
-                     _num(kt, 5) if kt is not None else "-", ("+-" + _num(band, 2)) if band is not None else "-",
-                     _num(r.chart_kt, 4) + (f" ({r.chart_basis})" if r.chart_basis else "") if r.chart_kt else "-",
+        rows.append([str(r.index), *(num(r.values[n], 6) for n in names), r.status,
+                     num(kt, 5) if kt is not None else "-", ("+-" + num(band, 2)) if band is not None else "-",
+                     num(r.chart_kt, 4) + (f" ({r.chart_basis})" if r.chart_basis else "") if r.chart_kt else "-",
                      r.feature or r.message[:70]])
-    lines = _table(["#", *names, "status", f"Kt_{basis}", "band", "chart", "feature / message"], rows)
+    lines = table(["#", *names, "status", f"Kt_{basis}", "band", "chart", "feature / message"], rows)
     ok = sum(r.status == "ok" for r in results)
     lines.append(f"{ok} of {len(results)} points solved; invalid or failed points keep their message in the files.")
     if fit is not None:
@@ -43,15 +107,12 @@ def format_target(t) -> str:
 
 
 def write_sweep_plot(results, names, basis: str, path: str, title: str, fit=None) -> None:
-    import matplotlib
-
-    matplotlib.use("Agg")
-    import matplotlib.pyplot as plt
-    import numpy as np
+    from matplotlib.figure import Figure
 
     key = "kt_net" if basis == "net" else "kt_gross"
     ok = [r for r in results if r.status == "ok"]
-    fig, ax = plt.subplots(figsize=(6.4, 4.4))
+    fig = Figure(figsize=(6.4, 4.4))
+    ax = fig.subplots()
     x_name = names[0]
     groups = {}
     for r in ok:
@@ -71,21 +132,11 @@ def write_sweep_plot(results, names, basis: str, path: str, title: str, fit=None
             cx, cy = zip(*chart)
             ax.plot(cx, cy, styles[g % len(styles)], color="0.55", lw=2.0,
                     label="published chart" + (f" ({label})" if names[1:] else ""))
-    if fit is not None and len(names) == 1 and ok:
-        xs = np.linspace(*fit.ranges[x_name], 200)
-        if fit.form.startswith("poly"):
-            deg = len(fit.coefficients) - 1
-            ys = sum(fit.coefficients[f"c{k}"] * xs ** k for k in range(deg + 1))
-        elif fit.form == "power":
-            ys = fit.coefficients["A"] * xs ** fit.coefficients["b"]
-        else:
-            ys = None
-        if ys is not None:
-            ax.plot(xs, ys, ":", color="0.3", label=f"fit {fit.form} (max residual {fit.max_residual:.2g})")
+    if fit is not None and fit.curve is not None and ok:
+        ax.plot(*fit.curve, ":", color="0.3", label=f"fit {fit.form} (max residual {fit.max_residual:.2g})")
     ax.set_xlabel(x_name)
     ax.set_ylabel(f"Kt_{basis} [-]")
     ax.set_title(title, fontsize=10)
     ax.legend(fontsize=8)
     fig.tight_layout()
     fig.savefig(path, dpi=120)
-    plt.close(fig)

@@ -1,4 +1,4 @@
-"""Plain-text report of a solve: ranked hot-spot table, sections, mesh and timing facts, cautions.
+"""Plain-text report of a solve: ranked stress-peak table, sections, mesh and timing facts, cautions.
 
 Formats numbers that the pipeline computed; never computes or changes one.
 """
@@ -7,10 +7,11 @@ from __future__ import annotations
 
 import math
 
-from ..pipeline import Result
+from ..records import Result
+from .words import TWO_GRID_METHOD, family_check_lines, nearest_chart_line
 
 
-def _num(v, digits: int = 4) -> str:
+def num(v, digits: int = 4) -> str:
     if v is None:
         return "n/a"
     if isinstance(v, float) and not math.isfinite(v):
@@ -18,7 +19,7 @@ def _num(v, digits: int = 4) -> str:
     return f"{v:.{digits}g}"
 
 
-def _table(headers: list[str], rows: list[list[str]]) -> list[str]:
+def table(headers: list[str], rows: list[list[str]]) -> list[str]:
     widths = [max(len(h), *(len(r[i]) for r in rows)) if rows else len(h) for i, h in enumerate(headers)]
     line = "  ".join(h.ljust(w) for h, w in zip(headers, widths))
     out = [line, "  ".join("-" * w for w in widths)]
@@ -27,64 +28,73 @@ def _table(headers: list[str], rows: list[list[str]]) -> list[str]:
 
 
 def format_result(r: Result) -> str:
-    su, lu = r.units["stress"], r.units["length"]
+    su, lu = r.units.stress, r.units.length
     lines = [f"fekt: {r.case_name}" + ("   [demo data: invented part]" if r.demo else "")]
     if r.source:
         lines.append(f"case file: {r.source}")
-    ends = r.load["ends"]
-    lines.append(f"{r.model.replace('_', ' ')}, thickness {_num(r.thickness)} {lu}; "
-                 f"axial force {_num(r.load['force'])} {r.units['force']}, moments "
-                 f"{_num(ends[0]['moment'])} at '{ends[0]['name']}' and {_num(ends[1]['moment'])} at "
-                 f"'{ends[1]['name']}' ({r.units['moment']})")
+    ends = r.load.ends
+    lines.append(f"{r.model_label}, thickness {num(r.thickness)} {lu}; "
+                 f"axial force {num(r.load.force)} {r.units.force}, moments "
+                 f"{num(ends[0].moment)} at '{ends[0].name}' and {num(ends[1].moment)} at "
+                 f"'{ends[1].name}' ({r.units.moment})")
     lines.append("")
     rows = []
-    for h in r.hot_spots:
+    for h in r.peaks:
         feat = h.feature + (" [SINGULAR]" if h.singular else "")
-        kt_net = _num(h.kt_net) if not h.singular else _num(h.kt_net) + "*"
-        rad = "sharp" if h.radius == 0 else ("-" if not math.isfinite(h.radius) else _num(h.radius))
+        kt_net = num(h.kt_net) if not h.singular else num(h.kt_net) + "*"
+        rad = "sharp" if h.radius == 0 else ("-" if not math.isfinite(h.radius) else num(h.radius))
         unc = ""
-        if r.uncertainty and str(h.rank) in r.uncertainty.get("hot_spots", {}):
-            u = r.uncertainty["hot_spots"][str(h.rank)]
-            unc = "+-" + _num(u["kt_net_band"], 2) if u.get("kt_net_band") is not None else "(no band)"
-        rows.append([str(h.rank), feat, f"({_num(h.x, 5)}, {_num(h.y, 5)})", _num(h.peak),
-                     _num(h.sigma_nom_net), kt_net + (f" {unc}" if unc else ""), _num(h.kt_gross),
-                     _num(h.net_section.width), f"{_num(h.element_size, 3)} / {rad}"])
-    lines.append(f"Hot spots (boundary maximum principal stress, ranked; stresses in {su}, lengths in {lu}):")
-    lines += _table(["#", "feature", "at (x, y)", "sigma_peak", "sigma_nom", "Kt_net", "Kt_gross",
-                     "net width", "elem size / radius"], rows)
+        if h.band is not None:
+            unc = "+-" + num(h.band.kt_net, 2) if h.band.kt_net is not None else "(no band)"
+        rows.append([str(h.rank), feat, f"({num(h.x, 5)}, {num(h.y, 5)})", num(h.peak),
+                     num(h.sigma_nom_net), kt_net + (f" {unc}" if unc else ""), num(h.kt_gross),
+                     num(h.net_section.width), f"{num(h.element_size, 3)} / {rad}"])
+    lines.append(f"Stress peaks (boundary maximum principal stress, ranked; stresses in {su}, lengths in {lu}):")
+    lines += table(["#", "feature", "at (x, y)", "sigma_peak", "sigma_nom", "Kt_net", "Kt_gross",
+                    "net width", "elem size / radius"], rows)
     lines.append("")
-    gross_end = r.hot_spots[0].gross_end if r.hot_spots else ""
+    gross_end = r.peaks[0].gross_end if r.peaks else ""
     lines.append(f"Kt_net = sigma_peak / sigma_nom on the net section (shortest cut normal to the load axis "
                  f"through the owning feature; sigma_nom = N/A + M*y/I by beam theory). Kt_gross uses the "
                  f"section of end '{gross_end}' (the wider loaded end).")
     c = r.most_compressive
-    lines.append(f"Most compressive boundary stress: {_num(c['sigma'])} {su} at ({_num(c['x'], 5)}, {_num(c['y'], 5)})")
-    if r.uncertainty:
-        lines.append(f"Uncertainty: {r.uncertainty.get('method', '')}")
-    if r.charts:
-        lines += ["", *r.charts.get("lines", [])]
+    lines.append(f"Most compressive boundary stress: {num(c.sigma)} {su} at ({num(c.x, 5)}, {num(c.y, 5)})")
+    if r.estimate is not None:
+        lines.append(f"Uncertainty: {TWO_GRID_METHOD}")
+    lines += chart_lines(r)
     lines.append("")
     seen = set()
-    for h in r.hot_spots:
+    for h in r.peaks:
         if h.feature in seen:
             continue
         seen.add(h.feature)
         s = h.net_section
-        lines.append(f"  net section for {h.feature}: width {_num(s.width)} {lu}, area {_num(s.area)} {lu}^2, "
-                     f"centroid ({_num(s.centroid[0], 5)}, {_num(s.centroid[1], 5)}), N = {_num(h.N)}, "
-                     f"M = {_num(h.M)}, equilibrium error {_num(100 * h.equilibrium_error, 2)} %")
+        lines.append(f"  net section for {h.feature}: width {num(s.width)} {lu}, area {num(s.area)} {lu}^2, "
+                     f"centroid ({num(s.centroid[0], 5)}, {num(s.centroid[1], 5)}), N = {num(h.N)}, "
+                     f"M = {num(h.M)}, equilibrium error {num(100 * h.equilibrium_error, 2)} %")
     m, t = r.mesh, r.timings
     lines.append("")
-    lines.append(f"Mesh: {m['elements']} curved 6-node triangles, {m['dofs']} DOFs, min scaled Jacobian "
-                 f"{_num(m['min_scaled_jacobian'], 3)}, {_num(m['elements_per_radius'], 3)} elements per notch radius, "
-                 f"largest element {_num(m['size_max'], 3)} {lu}; solver {m['solver']}")
-    lines.append(f"Time: mesh {t['mesh_s']:.2f} s, assemble {t['assemble_s']:.2f} s, solve {t['solve_s']:.2f} s, "
-                 f"post {t['post_s']:.2f} s, total {t['total_s']:.2f} s")
+    lines.append(f"Mesh: {m.elements} curved 6-node triangles, {m.dofs} DOFs, min scaled Jacobian "
+                 f"{num(m.min_scaled_jacobian, 3)}, {num(m.elements_per_radius, 3)} elements per notch radius, "
+                 f"largest element {num(m.size_max, 3)} {lu}; solver {m.solver}")
+    lines.append(f"Time: mesh {t.mesh_s:.2f} s, assemble {t.assemble_s:.2f} s, solve {t.solve_s:.2f} s, "
+                 f"post {t.post_s:.2f} s, total {t.total_s:.2f} s")
     for n in r.notes:
         lines.append(f"note: {n}")
     for w in r.warnings:
         lines.append(f"WARNING: {w}")
-    if any(h.singular for h in r.hot_spots):
-        lines.append("* singular hot spot: its peak grows with mesh refinement; the value is not a property of the part")
+    if any(h.singular for h in r.peaks):
+        lines.append("* singular stress peak: its value grows with mesh refinement; it is not a property of the part")
     lines.append(f"Caution: {r.caution}")
     return "\n".join(lines)
+
+
+def chart_lines(r: Result) -> list[str]:
+    """The chart cross-check lines: the family check, or the nearest chart per feature."""
+    if r.family_check is not None:
+        record = r.peak(r.family_check.peak_rank).chart if r.family_check.peak_rank is not None else None
+        return ["", *family_check_lines(r.family_check, record)]
+    rows = [nearest_chart_line(p.feature, p.kt_net, p.chart) for p in r.peaks if p.chart is not None]
+    if not rows:
+        return []
+    return ["", "Nearest chart per feature (each notch alone; ignores interaction with other features):", *rows]

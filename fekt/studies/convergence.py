@@ -1,15 +1,15 @@
-"""Refinement ladders, hot-spot tracking across meshes, and the uncertainty attached to every Kt.
+"""Refinement ladders, stress-peak tracking across meshes, and the uncertainty attached to every Kt.
 
-A study runs one *level runner* (mesh settings -> values at the hot spots) on a ladder of
-systematically refined meshes, tracks each hot spot of the finest mesh back through the coarser ones
-(same feature, nearest location), and estimates each hot spot's discretisation uncertainty with the
+A study runs one *level runner* (mesh settings -> values at the stress peaks) on a ladder of
+systematically refined meshes, tracks each stress peak of the finest mesh back through the coarser ones
+(same feature, nearest location), and estimates each peak's discretisation uncertainty with the
 Grid Convergence Index (:mod:`fekt.studies.gci`; Roache 1994, Celik et al. 2008).
 
 Ladders (level 0 is the case's own mesh, so a study starts from what ``fekt solve`` reports):
 * default: elements per notch radius multiplied by the ratio r per level (the grading rule and the
   largest element size stay the same, so refinement is concentrated where the peak is formed);
 * ``nested``: gmsh splits every element of the case's mesh k times (ratio 2 exactly; new boundary
-  nodes snap to the curves, shared notes F2); the far field is refined too, so it costs 4x per level.
+  nodes snap to the curves, docs/pitfalls.md F2); the far field is refined too, so it costs 4x per level.
 
 Representative size: the element size at the notch features relative to level 0, h_k = r^-k; the
 ratio between levels is exactly r for both ladders (the peak is a local quantity, so the local size
@@ -28,30 +28,30 @@ from dataclasses import dataclass
 
 from ..case.schema import Case, MeshSpec
 from ..errors import InputError
-from ..pipeline import Result, run
-from .gci import ConvergenceEstimate, estimate, format_value
+from ..kinds import EquilibriumMode, FeatureKind, Verdict
+from ..pipeline import run
+from ..records import STUDY_SCHEMA, Band, EstimateFacts, Result, to_jsonable
+from .gci import FS_NON_MONOTONE, ConvergenceEstimate, estimate
 
-#: formal order of the peak stress for quadratic elements (references 4.6)
+#: formal order of the peak stress for quadratic elements (docs/references.md, grid convergence)
 FORMAL_ORDER = 2.0
-#: a non-singular hot spot whose values change by less than this fraction between meshes, but not
+#: a non-singular peak whose values change by less than this fraction between meshes, but not
 #: monotonically, is scatter at the level of element-to-element differences rather than divergence
 #: (our own threshold: sharp corners grow by tens of percent per level; no published source)
 SCATTER_LIMIT = 0.01
-#: safety factor on the largest change for non-monotone sequences (as for two-grid studies, Roache 1994)
-FS_NON_MONOTONE = 3.0
 
 
 @dataclass(frozen=True)
 class Sample:
-    """One hot spot's value on one mesh; ``key`` is its owning feature."""
+    """One stress peak's value on one mesh; ``key`` is its owning feature."""
 
     key: str
     x: float
     y: float
     value: float
     singular: bool = False
-    rank: int = 0  # rank of the hot spot in its own result
-    kind: str = ""  # feature kind ("edge" when the hot spot belongs to no notch feature)
+    rank: int = 0  # rank of the peak in its own result (0: not from a result, e.g. a synthetic test)
+    kind: FeatureKind | None = None  # EDGE when the peak belongs to no notch feature
     gross_over_net: float | None = None  # Kt_gross / Kt_net (same peak, other nominal stress)
     scatter: float = 0.0  # local roughness of the peak in Kt units (a floor for the band)
 
@@ -68,7 +68,12 @@ class Level:
 
 @dataclass(frozen=True)
 class SpotStudy:
-    """One tracked hot spot: values fine -> coarse and the uncertainty estimate."""
+    """One tracked stress peak: values fine -> coarse, the verdict and the band (numbers only; the
+    report says what they mean).
+
+    ``convergence_band`` is the band from the grid study alone; ``scatter_floor`` says the local stress
+    scatter was larger and set ``band``; ``largest_change`` is the largest change between meshes for
+    sequences that are banded by it (non-monotone, plain edges)."""
 
     rank: int
     key: str
@@ -78,12 +83,14 @@ class SpotStudy:
     values: tuple[float, ...]  # fine -> coarse
     sizes: tuple[float, ...]
     dofs: tuple[int, ...]
-    verdict: str  # monotone / oscillatory / diverging / singular / converged / two-grid / untracked
+    verdict: Verdict
     estimate: ConvergenceEstimate | None
     band: float | None  # absolute uncertainty of the fine value (None when there is none)
     extrapolated: float | None
-    message: str
     gross_over_net: float | None = None
+    convergence_band: float | None = None
+    scatter_floor: bool = False
+    largest_change: float | None = None
 
 
 def ladder(spec: MeshSpec, levels: int, ratio: float = 2.0, *, nested: bool = False) -> list[MeshSpec]:
@@ -111,9 +118,9 @@ def level_sizes(specs: Sequence[MeshSpec]) -> list[float]:
 
 
 def case_samples(result: Result) -> tuple[Sample, ...]:
-    """Kt_net at each hot spot of a pipeline result (hot spots without a Kt are skipped)."""
+    """Kt_net at each stress peak of a pipeline result (peaks without a Kt are skipped)."""
     out = []
-    for h in result.hot_spots:
+    for h in result.peaks:
         if h.kt_net is None:
             continue
         ratio = h.kt_gross / h.kt_net if h.kt_gross is not None else None
@@ -122,10 +129,10 @@ def case_samples(result: Result) -> tuple[Sample, ...]:
     return tuple(out)
 
 
-def _case_level(case: Case, spec: MeshSpec, h: float, equilibrium: str) -> tuple[Level, Result]:
+def _case_level(case: Case, spec: MeshSpec, h: float, equilibrium: EquilibriumMode) -> tuple[Level, Result]:
     t0 = time.perf_counter()
     r = run(dataclasses.replace(case, mesh=spec), equilibrium=equilibrium).result
-    lvl = Level(spec, r.mesh["elements"], r.mesh["dofs"], h, time.perf_counter() - t0, case_samples(r))
+    lvl = Level(spec, r.mesh.elements, r.mesh.dofs, h, time.perf_counter() - t0, case_samples(r))
     return lvl, r
 
 
@@ -137,7 +144,7 @@ def run_case_levels(case: Case, specs: Sequence[MeshSpec], *, jobs: int = 1,
     results: list[Result | None] = [None] * len(specs)
     hs = level_sizes(specs)
     # coarse levels only warn about equilibrium; the finest one must pass the check
-    eq = ["warn"] * (len(specs) - 1) + ["fail"]
+    eq = [EquilibriumMode.WARN] * (len(specs) - 1) + [EquilibriumMode.FAIL]
     if jobs <= 1:
         for i, s in enumerate(specs):
             levels[i], results[i] = _case_level(case, s, hs[i], eq[i])
@@ -158,14 +165,14 @@ def _match(target: Sample, candidates: Sequence[Sample], scale: float) -> Sample
     if not same:
         return None
     best = min(same, key=lambda c: math.hypot(c.x - target.x, c.y - target.y))
-    # a peak that moved by more than a quarter of the part's size is a different hot spot
+    # a peak that moved by more than a quarter of the part's size is a different peak
     if math.hypot(best.x - target.x, best.y - target.y) > 0.25 * scale:
         return None
     return best
 
 
 def track(levels: Sequence[Level], scale: float) -> list[tuple[Sample, list[Sample | None]]]:
-    """For each hot spot of the finest level, its matches on every level (fine -> coarse)."""
+    """For each stress peak of the finest level, its matches on every level (fine -> coarse)."""
     finest = levels[-1]
     out = []
     for s in finest.samples:
@@ -178,9 +185,9 @@ def track(levels: Sequence[Level], scale: float) -> list[tuple[Sample, list[Samp
 
 def study_spots(levels: Sequence[Level], scale: float, *, formal_order: float = FORMAL_ORDER,
                 policy: str = "oberkampf-roy", local_ladder: bool = True) -> list[SpotStudy]:
-    """Uncertainty of each finest-level hot spot from the ladder (fine value, band, verdict).
+    """Uncertainty of each finest-level peak from the ladder (fine value, band, verdict).
 
-    ``local_ladder``: the ladder refined only at notch features, so hot spots on plain edges were not
+    ``local_ladder``: the ladder refined only at notch features, so peaks on plain edges were not
     refined systematically; they get no order or extrapolation, only a conservative scatter band."""
     out = []
     for i, (s, chain) in enumerate(track(levels, scale), start=1):
@@ -196,56 +203,56 @@ def study_spots(levels: Sequence[Level], scale: float, *, formal_order: float = 
         common = dict(rank=rank, key=s.key, x=s.x, y=s.y, singular=s.singular, values=vals, sizes=sizes,
                       dofs=dofs, gross_over_net=s.gross_over_net)
         if n_ok < 2:
-            out.append(SpotStudy(verdict="untracked", estimate=None, band=None, extrapolated=None,
-                                 message="this hot spot has no counterpart on the coarser mesh; no estimate",
-                                 **common))
+            out.append(SpotStudy(verdict=Verdict.UNTRACKED, estimate=None, band=None, extrapolated=None, **common))
             continue
-        if local_ladder and s.kind == "edge":
+        if local_ladder and s.kind == FeatureKind.EDGE:
             change = max(abs(a - b) for a, b in zip(vals[:-1], vals[1:]))
             band = max(FS_NON_MONOTONE * change, s.scatter)
-            out.append(SpotStudy(verdict="not refined", estimate=None, band=band, extrapolated=None,
-                                 message=(f"Kt_net = {vals[0]:.5g} +- {band:.2g} (plain edge: this ladder refines only "
-                                          f"at notch features, so no order is estimated; band = the larger of "
-                                          f"{FS_NON_MONOTONE:g} x the largest change and the local stress scatter; "
-                                          "use --nested to refine here)"),
-                                 **common))
+            out.append(SpotStudy(verdict=Verdict.NOT_REFINED, estimate=None, band=band, extrapolated=None,
+                                 largest_change=change, **common))
             continue
         est = estimate(vals, sizes, formal_order=formal_order, policy=policy)
-        verdict = est.classification
+        verdict = Verdict(est.classification)
         band = est.uncertainty_abs if math.isfinite(est.uncertainty_abs) else None
         extrap = est.extrapolated
+        change = None
         if s.singular:
-            verdict, band, extrap = "singular", None, None
-            msg = (f"singular: the peak at the sharp corner ({s.x:.4g}, {s.y:.4g}) keeps rising with refinement "
-                   f"({', '.join(f'{v:.4g}' for v in reversed(vals))} from coarse to fine); it has no finite "
-                   "value: give the corner a radius")
-        elif verdict in ("diverging", "oscillatory"):
+            verdict, band, extrap = Verdict.SINGULAR, None, None
+        elif verdict in (Verdict.DIVERGING, Verdict.OSCILLATORY):
             used = vals[:3]
             change = max(abs(a - b) for a, b in zip(used[:-1], used[1:]))
             extrap = None
-            if verdict == "diverging" and change > SCATTER_LIMIT * abs(vals[0]):
+            if verdict == Verdict.DIVERGING and change > SCATTER_LIMIT * abs(vals[0]):
                 band = None
-                msg = ("diverging: the value moves more on finer meshes "
-                       f"({', '.join(f'{v:.5g}' for v in reversed(vals))} from coarse to fine); not extrapolated, "
-                       "no band")
             else:
-                verdict = "scatter" if verdict == "diverging" else verdict
+                verdict = Verdict.SCATTER if verdict == Verdict.DIVERGING else verdict
                 band = FS_NON_MONOTONE * change
-                msg = (f"Kt_net = {vals[0]:.5g} +- {band:.2g} ({verdict}: changes between meshes are not monotone; "
-                       f"not extrapolated; band = {FS_NON_MONOTONE:g} x the largest change, {change:.2g})")
-        else:
-            msg = format_value("Kt_net", vals[0], est)
-        if band is not None and s.scatter > band:
-            msg = (f"Kt_net = {vals[0]:.5g} +- {s.scatter:.2g} (band set by the local stress scatter at the peak; "
-                   f"the convergence band alone was {band:.2g}: {msg})")
+        convergence_band = band
+        floor = band is not None and s.scatter > band
+        if floor:
             band = s.scatter
-        out.append(SpotStudy(verdict=verdict, estimate=est, band=band, extrapolated=extrap, message=msg, **common))
+        out.append(SpotStudy(verdict=verdict, estimate=est, band=band, extrapolated=extrap,
+                             convergence_band=convergence_band, scatter_floor=floor, largest_change=change,
+                             **common))
     return out
+
+
+def band_record(s: SpotStudy, method: str) -> Band:
+    """The band of one tracked peak as it goes into the peak's record."""
+    g = s.gross_over_net
+    est = s.estimate
+    return Band(verdict=s.verdict, method=method, kt_net=s.band,
+                kt_gross=(s.band * g if (s.band is not None and g) else None),
+                values_fine_to_coarse=tuple(s.values), dofs_fine_to_coarse=tuple(int(d) for d in s.dofs),
+                observed_order=est.observed_order if est else None, order_used=est.order_used if est else None,
+                gci_fs=est.safety_factor if est else None, extrapolated=s.extrapolated,
+                convergence_band=s.convergence_band, scatter_floor=s.scatter_floor, largest_change=s.largest_change,
+                formal_order=est.formal_order if est else FORMAL_ORDER)
 
 
 def part_scale(result: Result) -> float:
     """A length for matching tolerances: the larger loaded end width."""
-    return max(e["width"] for e in result.load["ends"])
+    return max(e.width for e in result.load.ends)
 
 
 # --- the estimate attached to every `fekt solve` ------------------------------------------------
@@ -253,73 +260,62 @@ def part_scale(result: Result) -> float:
 #: the second mesh of the two-grid estimate is coarser by this ratio (elements per radius halved,
 #: largest element doubled)
 TWO_GRID_RATIO = 2.0
+TWO_GRID = "two-grid"
+STUDY = "study"
 
 
-def two_grid_uncertainty(case: Case, fine: Result) -> dict:
-    """Two-grid GCI (Roache 1994: Fs = 3 with the formal order p = 2) for every hot spot of ``fine``.
+def two_grid_bands(case: Case, fine: Result) -> tuple[EstimateFacts, dict[int, Band]]:
+    """Two-grid GCI (Roache 1994: Fs = 3 with the formal order p = 2) for every peak of ``fine``.
 
     The second mesh has half the case's elements per notch radius (about a third of the cost).
-    Returns a JSON-able dict for :attr:`Result.uncertainty`."""
+    Returns how the estimate was made and each peak's band, keyed by the peak's rank."""
     coarse_spec = dataclasses.replace(case.mesh, elements_per_radius=case.mesh.elements_per_radius / TWO_GRID_RATIO)
-    coarse_lvl, _ = _case_level(case, coarse_spec, TWO_GRID_RATIO, "warn")
-    fine_lvl = Level(case.mesh, fine.mesh["elements"], fine.mesh["dofs"], 1.0, 0.0, case_samples(fine))
+    coarse_lvl, _ = _case_level(case, coarse_spec, TWO_GRID_RATIO, EquilibriumMode.WARN)
+    fine_lvl = Level(case.mesh, fine.mesh.elements, fine.mesh.dofs, 1.0, 0.0, case_samples(fine))
     spots = study_spots([coarse_lvl, fine_lvl], part_scale(fine))
-    return uncertainty_dict(spots, method=("two-grid GCI (Roache 1994): second mesh with half the elements per "
-                                           "notch radius, Fs = 3, formal order p = 2; band on the fine-mesh Kt"),
-                            extra={"coarse_dofs": int(coarse_lvl.dofs), "coarse_seconds": coarse_lvl.seconds})
+    facts = EstimateFacts(method=TWO_GRID, ratio=TWO_GRID_RATIO, coarse_dofs=int(coarse_lvl.dofs),
+                          coarse_seconds=coarse_lvl.seconds)
+    return facts, {s.rank: band_record(s, TWO_GRID) for s in spots}
 
 
-def uncertainty_dict(spots: Sequence[SpotStudy], *, method: str, extra: dict | None = None) -> dict:
-    """Per hot spot (keyed by the finest mesh's rank) the band on Kt_net and Kt_gross."""
-    per = {}
-    for s in spots:
-        g = s.gross_over_net
-        per[str(s.rank)] = {
-            "feature": s.key, "verdict": s.verdict, "kt_net": s.values[0] if s.values else None,
-            "kt_net_band": s.band, "kt_gross_band": (s.band * g if (s.band is not None and g) else None),
-            "kt_net_extrapolated": s.extrapolated, "values_fine_to_coarse": list(s.values),
-            "observed_order": s.estimate.observed_order if s.estimate else None,
-            "message": s.message,
-        }
-    out = {"method": method, "hot_spots": per}
-    if extra:
-        out.update(extra)
-    return out
+def with_bands(result: Result, facts: EstimateFacts, bands: dict[int, Band]) -> Result:
+    """The result with each peak's band set (peaks with no counterpart keep None)."""
+    peaks = tuple(dataclasses.replace(p, band=bands.get(p.rank)) for p in result.peaks)
+    timings = dataclasses.replace(result.timings, estimate_s=facts.coarse_seconds)
+    return dataclasses.replace(result, peaks=peaks, estimate=facts, timings=timings)
+
+
+@dataclass(frozen=True)
+class LevelFacts:
+    """One mesh of a study as reported."""
+
+    level: int
+    elements_per_radius: float
+    refine: int
+    elements: int
+    dofs: int
+    relative_size: float
+    seconds: float
 
 
 @dataclass(frozen=True)
 class Study:
-    """A whole refinement study of one case (``fekt converge``)."""
+    """A whole refinement study of one case (``fekt converge``); numbers and verdicts only."""
 
     case_name: str
     demo: bool
     ratio: float
     nested: bool
-    levels: tuple[Level, ...]  # level 0 (the case's mesh) first
+    formal_order: float
+    policy: str
+    levels: tuple[LevelFacts, ...]  # level 0 (the case's mesh) first
     spots: tuple[SpotStudy, ...]
-    finest: Result
     seconds: float
+    caution: str
+    schema: str = STUDY_SCHEMA
 
     def to_dict(self) -> dict:
-        return {
-            "case_name": self.case_name, "demo": self.demo, "ratio": self.ratio, "nested": self.nested,
-            "seconds": self.seconds,
-            "method": ("Grid Convergence Index: observed order by Celik et al. (2008), Richardson "
-                       "extrapolation, Fs = 1.25 when the observed order is within 10 % of 2, else Fs = 3 "
-                       "(Roache 1994; Oberkampf & Roy 2010)"),
-            "levels": [{"level": i, "elements_per_radius": lv.spec.elements_per_radius, "refine": lv.spec.refine,
-                        "elements": int(lv.elements), "dofs": int(lv.dofs), "relative_size": lv.h,
-                        "seconds": lv.seconds} for i, lv in enumerate(self.levels)],
-            "hot_spots": [{
-                "rank": s.rank, "feature": s.key, "x": s.x, "y": s.y, "singular": s.singular,
-                "verdict": s.verdict, "kt_net_fine": s.values[0], "kt_net_band": s.band,
-                "kt_net_extrapolated": s.extrapolated,
-                "observed_order": s.estimate.observed_order if s.estimate else None,
-                "safety_factor": s.estimate.safety_factor if s.estimate else None,
-                "values_fine_to_coarse": list(s.values), "dofs_fine_to_coarse": [int(d) for d in s.dofs],
-                "message": s.message} for s in self.spots],
-            "caution": self.finest.caution,
-        }
+        return to_jsonable(self)
 
 
 def converge(case: Case, *, levels: int = 3, ratio: float = 2.0, nested: bool = False, jobs: int = 1,
@@ -329,5 +325,7 @@ def converge(case: Case, *, levels: int = 3, ratio: float = 2.0, nested: bool = 
     specs = ladder(case.mesh, levels, ratio, nested=nested)
     lv, results = run_case_levels(case, specs, jobs=jobs, progress=progress)
     spots = study_spots(lv, part_scale(results[-1]), local_ladder=not nested)
-    return Study(case.name, case.demo, ratio if not nested else 2.0, nested, tuple(lv), tuple(spots),
-                 results[-1], time.perf_counter() - t0)
+    facts = tuple(LevelFacts(i, l.spec.elements_per_radius, l.spec.refine, int(l.elements), int(l.dofs), l.h,
+                             l.seconds) for i, l in enumerate(lv))
+    return Study(case.name, case.demo, ratio if not nested else 2.0, nested, FORMAL_ORDER, "oberkampf-roy", facts,
+                 tuple(spots), time.perf_counter() - t0, results[-1].caution)

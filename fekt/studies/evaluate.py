@@ -1,4 +1,4 @@
-"""One case, fully evaluated: the pipeline's result plus its uncertainty bands and chart values.
+"""One case, fully evaluated: the pipeline's result with each peak's uncertainty band and chart check.
 
 This is what ``fekt solve`` reports and what sweeps evaluate at every point.
 """
@@ -6,10 +6,12 @@ This is what ``fekt solve`` reports and what sweeps evaluate at every point.
 from __future__ import annotations
 
 import dataclasses
+import time
 
 from ..case.schema import Case
+from ..charts.crosscheck import with_charts
 from ..pipeline import Solved, run
-from .convergence import two_grid_uncertainty
+from .convergence import two_grid_bands, with_bands
 
 
 def solve_full(case: Case, *, estimate: bool = True, charts: bool = True) -> Solved:
@@ -21,9 +23,10 @@ def solve_full(case: Case, *, estimate: bool = True, charts: bool = True) -> Sol
     solved = run(case)
     result = solved.result
     if estimate:
-        result = dataclasses.replace(result, uncertainty=two_grid_uncertainty(case, result))
+        result = with_bands(result, *two_grid_bands(case, result))
     if charts:
-        from ..charts.crosscheck import chart_report
-
-        result = dataclasses.replace(result, charts=chart_report(case, solved.part, result))
+        t0 = time.perf_counter()
+        result = with_charts(case, solved.part, result)
+        result = dataclasses.replace(result, timings=dataclasses.replace(result.timings,
+                                                                           charts_s=time.perf_counter() - t0))
     return dataclasses.replace(solved, result=result)

@@ -49,7 +49,6 @@ __all__ = [
     "classify",
     "trend",
     "estimate",
-    "format_value",
 ]
 
 # Relative level below which differences between grids are taken as solver
@@ -118,7 +117,6 @@ class ConvergenceEstimate:
         uncertainty_abs: absolute uncertainty of the fine value, ``gci_fine * |phi1|``.
         policy: the rule used to choose Fs and p (see :func:`estimate`).
         formal_order: the formal (theoretical) order of accuracy assumed.
-        method: short human-readable description of how the band was obtained.
     """
 
     values: tuple[float, ...]
@@ -139,7 +137,6 @@ class ConvergenceEstimate:
     uncertainty_abs: float
     policy: str
     formal_order: float
-    method: str
 
     @property
     def fine_value(self) -> float:
@@ -181,20 +178,6 @@ def _relative(diff: float, ref: float) -> float:
     if ref == 0.0:
         return 0.0 if diff == 0.0 else math.inf
     return abs(diff / ref)
-
-
-def _fmt_order(p: float) -> str:
-    return f"{p:.3g}" if abs(p - round(p)) > 1e-12 else f"{round(p):d}"
-
-
-def _fmt_fs(fs: float) -> str:
-    return f"{fs:g}"
-
-
-def _grids_text(common: dict) -> str:
-    """"3 grids", or "finest 3 of 5 grids" when only some were used."""
-    used, total = common["n_used"], len(common["values"])
-    return f"{used} grids" if used == total else f"finest {used} of {total} grids"
 
 
 # ---------------------------------------------------------------------------
@@ -409,21 +392,16 @@ def trend(
     )
 
 
-def _choose_fs_and_order(p_obs: float, formal_order: float, policy: str) -> tuple[float, float, str]:
-    """(Fs, p, note) for a monotone three-grid sequence."""
+def _choose_fs_and_order(p_obs: float, formal_order: float, policy: str) -> tuple[float, float]:
+    """(Fs, p) for a monotone three-grid sequence."""
     if policy == "celik":
         # Celik et al. (2008), step 5 / Roache (1998): Fs = 1.25 with the observed p.
-        return FS_THREE_GRID, p_obs, f"observed p={p_obs:.3g}"
+        return FS_THREE_GRID, p_obs
     # Oberkampf & Roy (2010) [from memory]: Fs = 1.25 when the observed order
     # is within 10 % of the formal order; else Fs = 3, p = min(max(0.5, p_obs), p_f).
     if abs(p_obs - formal_order) / formal_order <= _OR_RELATIVE_TOLERANCE:
-        return FS_THREE_GRID, p_obs, f"observed p={p_obs:.3g}"
-    p = min(max(_OR_MIN_ORDER, p_obs), formal_order)
-    note = (
-        f"p={_fmt_order(p)} (observed p={p_obs:.3g} not within 10% of formal "
-        f"p={_fmt_order(formal_order)})"
-    )
-    return FS_TWO_GRID, p, note
+        return FS_THREE_GRID, p_obs
+    return FS_TWO_GRID, min(max(_OR_MIN_ORDER, p_obs), formal_order)
 
 
 def _gci_abs(fs: float, fine: float, coarse: float, r: float, p: float) -> float:
@@ -515,7 +493,6 @@ def estimate(
             gci_23=None,
             asymptotic_ratio=None,
             uncertainty_abs=u_fine,
-            method=f"GCI, {_grids_text(common)}, Fs={_fmt_fs(fs)}, formal p={_fmt_order(p)}",
             **common,
         )
 
@@ -530,7 +507,7 @@ def estimate(
     # Tight tolerance so that the iteration, not the data, never limits the
     # extrapolated value (our choice: a few hundred ulp of p).
     p_obs = observed_order(v3, h3, max_iter=1000, tol=1e-13)
-    fs, p, note = _choose_fs_and_order(p_obs, float(formal_order), policy)
+    fs, p = _choose_fs_and_order(p_obs, float(formal_order), policy)
     rp21 = r21**p
     # Celik et al. (2008), step 4: phi_ext21 = (r21^p phi1 - phi2)/(r21^p - 1).
     ext = (rp21 * phi1 - phi2) / (rp21 - 1.0)
@@ -556,7 +533,6 @@ def estimate(
         gci_23=gci_23,
         asymptotic_ratio=asym,
         uncertainty_abs=u_fine,
-        method=f"GCI, {_grids_text(common)}, Fs={_fmt_fs(fs)}, {note}",
         **common,
     )
 
@@ -564,7 +540,6 @@ def estimate(
 def _non_extrapolated(label: str, used: np.ndarray, common: dict) -> ConvergenceEstimate:
     """Result for oscillatory, diverging or converged sequences: no extrapolation."""
     phi1 = float(used[0])
-    n = _grids_text(common)
     if label == _CLASS_DIVERGING:
         return ConvergenceEstimate(
             classification=label,
@@ -578,7 +553,6 @@ def _non_extrapolated(label: str, used: np.ndarray, common: dict) -> Convergence
             gci_23=None,
             asymptotic_ratio=None,
             uncertainty_abs=math.inf,
-            method=f"diverging under refinement ({n}): no uncertainty estimate",
             **common,
         )
     # Oscillatory: our own conservative band (no published source), Fs = 3
@@ -587,13 +561,6 @@ def _non_extrapolated(label: str, used: np.ndarray, common: dict) -> Convergence
     # gives a round-off sized band for a converged sequence.
     spread = float(np.max(used) - np.min(used))
     u = FS_NON_MONOTONE * spread
-    if label == _CLASS_CONVERGED:
-        method = f"converged to solver precision ({n}), band {_fmt_fs(FS_NON_MONOTONE)} x spread"
-    else:
-        method = (
-            f"oscillatory ({n}), not extrapolated, "
-            f"band {_fmt_fs(FS_NON_MONOTONE)} x max difference"
-        )
     return ConvergenceEstimate(
         classification=label,
         observed_order=None,
@@ -606,45 +573,5 @@ def _non_extrapolated(label: str, used: np.ndarray, common: dict) -> Convergence
         gci_23=None,
         asymptotic_ratio=None,
         uncertainty_abs=u,
-        method=method,
         **common,
     )
-
-
-def _decimals_for(u: float) -> int:
-    """Decimals giving 2 significant digits of u, at least 3.
-
-    Two significant digits for an uncertainty follow JCGM 100:2008 (GUM)
-    7.2.6 [from memory]; the minimum of 3 decimals is our own convention.
-    """
-    d = 1 - math.floor(math.log10(u))
-    if round(u, d) >= 10.0 ** (2 - d):  # rounding carried into a third digit (e.g. 0.0996)
-        d -= 1
-    return max(3, d)
-
-
-def format_value(name: str, phi1: float, estimate: ConvergenceEstimate) -> str:
-    """One-line report, e.g. ``"Kt_net = 2.512 +- 0.0031 (GCI, fine mesh, 3 grids, Fs=1.25, p=2.03)"``.
-
-    ``phi1`` is the fine-mesh value being reported; the uncertainty is
-    ``estimate.uncertainty_abs``, printed with 2 significant digits (at least
-    3 decimals) and ``phi1`` with the same number of decimals.
-    """
-    est = estimate
-    grids = _grids_text({"n_used": est.n_used, "values": est.values})
-    u = est.uncertainty_abs
-    if est.classification == _CLASS_DIVERGING or not math.isfinite(u):
-        return f"{name} = {phi1:.3f} (diverging under refinement, {grids}: no uncertainty estimate)"
-    if est.classification == _CLASS_CONVERGED or u == 0.0:
-        return f"{name} = {phi1:.6f} (converged to solver precision, fine mesh, {grids})"
-    d = _decimals_for(u)
-    head = f"{name} = {phi1:.{d}f} +- {u:.{d}f}"
-    if est.classification == _CLASS_OSCILLATORY:
-        return (
-            f"{head} (oscillatory, fine mesh, {grids}, not extrapolated, "
-            f"band {_fmt_fs(est.safety_factor)} x max difference)"
-        )
-    p = est.order_used
-    p_txt = f"{p:.3g}" if est.observed_order is not None and p == est.observed_order else _fmt_order(p)
-    kind = "formal p" if est.classification == _CLASS_TWO_GRID else "p"
-    return f"{head} (GCI, fine mesh, {grids}, Fs={_fmt_fs(est.safety_factor)}, {kind}={p_txt})"

@@ -10,17 +10,17 @@ runs them, because every point is computed by the same deterministic function.
 from __future__ import annotations
 
 import itertools
-import json
-import math
 import os
 import time
-from collections.abc import Callable, Iterable, Mapping, Sequence
+from collections.abc import Callable, Iterable, Sequence
 from dataclasses import asdict, dataclass
 
 import numpy as np
 
 from ..case.loader import case_from_dict
 from ..errors import FektError, InputError
+from ..kinds import FeatureKind
+from ..registry import CATALOGUE
 
 #: columns of the CSV file, in order
 COLUMNS = ("index", "status", "feature", "kt_net", "kt_net_band", "kt_gross", "kt_gross_band", "chart_kt",
@@ -47,35 +47,11 @@ class PointResult:
         return asdict(self)
 
 
-def parse_vary(spec: str) -> tuple[str, list[float]]:
-    """'NAME=START:STOP:COUNT' (evenly spaced, both ends included) or 'NAME=v1,v2,...'."""
-    if "=" not in spec:
-        raise InputError(f"'{spec}' is not NAME=START:STOP:COUNT or NAME=v1,v2,...", item="--vary")
-    name, rhs = (t.strip() for t in spec.split("=", 1))
-    try:
-        if ":" in rhs:
-            parts = rhs.split(":")
-            if len(parts) != 3:
-                raise ValueError
-            a, b, n = float(parts[0]), float(parts[1]), int(parts[2])
-            if n < 1:
-                raise ValueError
-            values = list(np.linspace(a, b, n)) if n > 1 else [a]
-        else:
-            values = [float(v) for v in rhs.split(",") if v.strip()]
-    except ValueError:
-        raise InputError(f"'{spec}': the values must be START:STOP:COUNT (COUNT a whole number >= 1) or a "
-                         "comma-separated list of numbers", item="--vary") from None
-    if not name.isidentifier() or not values:
-        raise InputError(f"'{spec}': need a parameter name and at least one value", item="--vary")
-    return name, [float(v) for v in values]
-
-
 def grid(varies: Sequence[tuple[str, list[float]]]) -> list[dict[str, float]]:
     """Every combination of the varied values (first parameter varies slowest)."""
     names = [n for n, _ in varies]
     if len(set(names)) != len(names):
-        raise InputError("a parameter is varied twice", item="--vary")
+        raise InputError("a parameter is varied twice", item="vary")
     return [dict(zip(names, combo)) for combo in itertools.product(*(v for _, v in varies))]
 
 
@@ -85,25 +61,22 @@ def run_point(table: dict, source: str, index: int, values: dict[str, float], es
 
     t0 = time.perf_counter()
     try:
-        case = case_from_dict(table, source, overrides=values)
+        case = case_from_dict(table, source, overrides=values, catalogue=CATALOGUE)
         r = solve_full(case, estimate=estimate).result
     except InputError as exc:
         return PointResult(index, values, "invalid", str(exc), seconds=time.perf_counter() - t0)
     except FektError as exc:
         return PointResult(index, values, "failed", str(exc), seconds=time.perf_counter() - t0)
-    spots = [h for h in r.hot_spots if h.kt_net is not None and not h.singular]
-    notch = [h for h in spots if h.feature_kind != "edge"] or spots
+    spots = [h for h in r.peaks if h.kt_net is not None and not h.singular]
+    notch = [h for h in spots if h.feature_kind != FeatureKind.EDGE] or spots
     if not notch:
-        return PointResult(index, values, "failed", "no hot spot with a finite Kt", seconds=time.perf_counter() - t0)
+        return PointResult(index, values, "failed", "no stress peak with a finite Kt", seconds=time.perf_counter() - t0)
     top = max(notch, key=lambda h: h.kt_net)
-    band_n = band_g = None
-    if r.uncertainty:
-        u = r.uncertainty["hot_spots"].get(str(top.rank), {})
-        band_n, band_g = u.get("kt_net_band"), u.get("kt_gross_band")
+    band_n, band_g = (top.band.kt_net, top.band.kt_gross) if top.band else (None, None)
     chart, basis = None, ""
-    if r.charts and r.charts.get("family_check", {}).get("chart_kt") is not None:
-        chart = r.charts["family_check"]["chart_kt"]
-        basis = r.charts["family_check"]["basis"]
+    if r.family_check is not None and r.family_check.peak_rank is not None:
+        check = r.peak(r.family_check.peak_rank).chart
+        chart, basis = check.chart_kt, str(check.basis)
     return PointResult(index, values, "ok", "", top.feature, top.kt_net, band_n, top.kt_gross, band_g, chart, basis,
                        top.peak, time.perf_counter() - t0)
 
@@ -169,64 +142,10 @@ def run_points(table: dict, source: str, points: Sequence[dict[str, float]], *, 
     return sorted(out, key=lambda r: r.index)
 
 
-# --- files: written as points finish, read back to resume --------------------------------------------
-
-class SweepFiles:
-    """``points.jsonl`` (one JSON object per finished point, appended and flushed as it finishes) and
-    ``sweep.csv`` (rewritten atomically from it); the JSONL is what ``--resume`` reads."""
-
-    def __init__(self, folder: str, names: Sequence[str]):
-        self.folder = folder
-        self.names = list(names)
-        self.jsonl = os.path.join(folder, "points.jsonl")
-        self.csv = os.path.join(folder, "sweep.csv")
-
-    def finished(self, points: Sequence[dict[str, float]]) -> dict[int, PointResult]:
-        """Points already in the folder whose parameter values match this sweep's."""
-        done: dict[int, PointResult] = {}
-        if not os.path.exists(self.jsonl):
-            return done
-        with open(self.jsonl, encoding="utf-8") as fh:
-            for line in fh:
-                line = line.strip()
-                if not line:
-                    continue
-                try:
-                    d = json.loads(line)
-                except json.JSONDecodeError:
-                    continue  # a line cut short by an interrupt: that point is computed again
-                i = d.get("index")
-                if isinstance(i, int) and 0 <= i < len(points) and _same(d.get("values", {}), points[i]):
-                    done[i] = PointResult(**d)
-        return done
-
-    def append(self, r: PointResult) -> None:
-        with open(self.jsonl, "a", encoding="utf-8") as fh:
-            fh.write(json.dumps(r.to_json(), allow_nan=False) + "\n")
-            fh.flush()
-            os.fsync(fh.fileno())
-
-    def write_csv(self, results: Sequence[PointResult]) -> None:
-        import csv
-        import io
-
-        from ..report.files import write_text
-
-        buf = io.StringIO()
-        w = csv.writer(buf)
-        w.writerow(["index", *self.names, *COLUMNS[1:]])
-        for r in sorted(results, key=lambda r: r.index):
-            d = r.to_json()
-            w.writerow([r.index, *(repr(r.values[n]) for n in self.names),
-                        *("" if d[c] is None else d[c] for c in COLUMNS[1:])])
-        write_text(self.csv, buf.getvalue())
-
-
-def _same(a: Mapping[str, float], b: Mapping[str, float]) -> bool:
-    return set(a) == set(b) and all(math.isclose(a[k], b[k], rel_tol=1e-12, abs_tol=1e-15) for k in b)
-
-
 # --- fits --------------------------------------------------------------------------------------------
+
+#: the two-parameter form cubic in u with coefficients linear in sqrt(q) and q
+CUBIC_SQRT = "cubic-sqrt"
 
 @dataclass(frozen=True)
 class Fit:
@@ -237,14 +156,19 @@ class Fit:
     rms_residual: float
     ranges: dict[str, tuple[float, float]]
     points: int
+    curve: tuple[tuple[float, ...], tuple[float, ...]] | None = None  # the fitted Kt over the range (1 parameter)
+
+
+#: points of the fitted curve that plots draw
+CURVE_POINTS = 200
 
 
 def fit_results(results: Sequence[PointResult], names: Sequence[str], form: str, basis: str = "net") -> Fit:
     """Least-squares fit of Kt over the ok points.
 
-    ``poly:N`` polynomial of degree N in one varied parameter x; ``power``: Kt = A x^b; ``handbook``
+    ``poly:N`` polynomial of degree N in one varied parameter x; ``power``: Kt = A x^b; ``cubic-sqrt``
     (two parameters u, q): Kt = C1 + C2 u + C3 u^2 + C4 u^3, Ci = ci0 + ci1 sqrt(q) + ci2 q (the form of
-    the published flat-bar fits, Pilkey & Pilkey 2008, from memory)."""
+    several published flat-bar chart fits)."""
     ok = [r for r in results if r.status == "ok"]
     key = "kt_net" if basis == "net" else "kt_gross"
     y = np.array([getattr(r, key) for r in ok], dtype=float)
@@ -257,6 +181,7 @@ def fit_results(results: Sequence[PointResult], names: Sequence[str], form: str,
         _need_points(len(y), deg + 1, form)
         c = np.polyfit(x, y, deg)
         pred = np.polyval(c, x)
+        model = lambda xs, c=c: np.polyval(c, xs)  # noqa: E731
         coeffs = {f"c{deg - k}": float(v) for k, v in enumerate(c)}
         formula = " + ".join(f"c{k}*{names[0]}^{k}" for k in range(deg + 1))
     elif form == "power":
@@ -264,17 +189,18 @@ def fit_results(results: Sequence[PointResult], names: Sequence[str], form: str,
         x = X[names[0]]
         _need_points(len(y), 2, form)
         if (x <= 0).any() or (y <= 0).any():
-            raise InputError("the power form needs positive parameter values and Kt", item="--fit")
+            raise InputError("the power form needs positive parameter values and Kt", item="fit")
         b, lnA = np.polyfit(np.log(x), np.log(y), 1)
         pred = np.exp(lnA) * x ** b
+        model = lambda xs, a=np.exp(lnA), b=b: a * xs ** b  # noqa: E731
         coeffs = {"A": float(np.exp(lnA)), "b": float(b)}
         formula = f"A*{names[0]}^b"
-    elif form == "handbook":
+    elif form == CUBIC_SQRT:
         _need_params(names, 2, form)
         u, q = X[names[0]], X[names[1]]
         _need_points(len(y), 12, form)
         if (q < 0).any():
-            raise InputError("the handbook form needs q >= 0", item="--fit")
+            raise InputError(f"the {CUBIC_SQRT} form needs {names[1]} >= 0", item="fit")
         cols, labels = [], []
         for i in range(4):
             for j, g in enumerate((np.ones_like(q), np.sqrt(q), q)):
@@ -283,24 +209,30 @@ def fit_results(results: Sequence[PointResult], names: Sequence[str], form: str,
         A = np.vstack(cols).T
         c, *_ = np.linalg.lstsq(A, y, rcond=None)
         pred = A @ c
+        model = None
         coeffs = dict(zip(labels, map(float, c)))
         formula = (f"sum_i (ci0 + ci1*sqrt({names[1]}) + ci2*{names[1]}) * {names[0]}^(i-1), i = 1..4")
     else:
-        raise InputError(f"unknown fit form '{form}'", item="--fit", hint="poly:N, power or handbook")
+        raise InputError(f"unknown fit form '{form}'", item="fit", hint=f"poly:N, power or {CUBIC_SQRT}")
     res = y - pred
-    return Fit(form, formula, coeffs, float(np.max(np.abs(res))), float(np.sqrt(np.mean(res ** 2))), ranges, len(y))
+    curve = None
+    if model is not None and len(names) == 1:
+        xs = np.linspace(*ranges[names[0]], CURVE_POINTS)
+        curve = (tuple(map(float, xs)), tuple(map(float, model(xs))))
+    return Fit(form, formula, coeffs, float(np.max(np.abs(res))), float(np.sqrt(np.mean(res ** 2))), ranges, len(y),
+               curve)
 
 
 def _need_params(names, n, form):
     if len(names) != n:
         raise InputError(f"the '{form}' form needs exactly {n} varied parameter(s), the sweep has {len(names)}",
-                         item="--fit")
+                         item="fit")
 
 
 def _need_points(have, need, form):
     if have < need:
         raise InputError(f"the '{form}' form needs at least {need} successful points, the sweep has {have}",
-                         item="--fit")
+                         item="fit")
 
 
 # --- goal-seeking -------------------------------------------------------------------------------------
@@ -359,7 +291,7 @@ def goal_seek(table: dict, source: str, name: str, kt_target: float, bounds: tup
         if bracket is None:
             got = ", ".join(f"{v:.4g}" for _, v in history)
             raise InputError(f"Kt = {kt_target:g} is not reached for {name} in [{lo:g}, {hi:g}] (Kt found: {got})",
-                             item="--kt", hint="widen --bounds or choose a reachable Kt")
+                             item="kt", hint="widen --bounds or choose a reachable Kt")
         lo, hi = bracket
     x_star = brentq(kt_at, lo, hi, xtol=xtol * max(abs(lo), abs(hi), 1e-12), rtol=1e-10)
     final = run_point(table, source, len(history), {name: x_star}, estimate=True)

@@ -1,11 +1,11 @@
-"""Hot spots: local maxima of the boundary maximum principal stress, each with its owning feature.
+"""Stress peaks: local maxima of the boundary maximum principal stress, each with its owning feature.
 
-Rules (our own, documented in DEVELOPERS.md):
+Rules (our own, documented in docs/conventions.md):
 * samples on loaded end edges are excluded (their stress is the applied traction, not a notch effect);
 * a local maximum counts when its prominence is at least PROMINENCE of the largest boundary stress
   magnitude, which filters the element-to-element jitter of discontinuous P2 stresses;
-* the overall maximum of the free boundary is always a hot spot (even on a plain strip);
-* every notch feature gets at least one hot spot (its maximum) even when it is not a local peak;
+* the overall maximum of the free boundary is always a peak (even on a plain strip);
+* every notch feature gets at least one peak (its maximum) even when it is not a local peak;
 * a sharp re-entrant corner gets the largest sample within a few element sizes of it.
 """
 
@@ -17,17 +17,22 @@ import numpy as np
 from scipy.signal import find_peaks
 
 from ..geometry.model import Feature, PartGeometry
+from ..kinds import FeatureKind, LoopKind, PeakReason
 from .fields import BoundarySamples
 
+#: a local maximum counts when its prominence is at least this fraction of the largest boundary stress
+#: magnitude (filters the element-to-element jitter of discontinuous P2 stresses; our own threshold)
 PROMINENCE = 0.02
 
 
 @dataclass(frozen=True)
-class Peak:
+class Candidate:
+    """A boundary sample picked as a stress peak, before its section and Kt are worked out."""
+
     index: int  # into the boundary samples
     feature: Feature | None
     edge: str | None
-    why: str  # "local maximum", "feature maximum", "overall maximum", "corner"
+    why: PeakReason
 
 
 def _runs(mask: np.ndarray) -> list[np.ndarray]:
@@ -62,12 +67,28 @@ def feature_of_segment(part: PartGeometry) -> dict[tuple[int, int], Feature]:
     return out
 
 
-def find_hot_spots(b: BoundarySamples, part: PartGeometry, loaded: set[tuple[int, int]],
-                   corner_radius: dict[str, float]) -> list[Peak]:
+def boundary_refs(part: PartGeometry, names) -> set[tuple[int, int]]:
+    """(loop, segment) pairs of the named boundaries (outline edges by edge name, cut-outs by name)."""
+    refs: set[tuple[int, int]] = set()
+    for li, loop in enumerate(part.loops):
+        for si, seg in enumerate(loop.segments):
+            if seg.edge in names or (loop.kind == LoopKind.CUTOUT and loop.name in names):
+                refs.add((li, si))
+    return refs
+
+
+def free_mask(b: BoundarySamples, loaded: set[tuple[int, int]]) -> np.ndarray:
+    """Samples that do not lie on a loaded boundary."""
+    return np.array([(int(li), int(si)) not in loaded for li, si in zip(b.loop, b.segment)], dtype=bool)
+
+
+def find_peaks_on_boundary(b: BoundarySamples, part: PartGeometry, loaded: set[tuple[int, int]],
+                           corner_radius: dict[str, float]) -> list[Candidate]:
     """Peaks of s1 on the free boundary; see the module docstring for the rules.
 
-    ``corner_radius``: search radius around each sharp corner (a few local element sizes)."""
-    free = np.array([(int(li), int(si)) not in loaded for li, si in zip(b.loop, b.segment)])
+    ``loaded``: (loop, segment) pairs that carry load; ``corner_radius``: search radius around each sharp
+    corner (a few local element sizes)."""
+    free = free_mask(b, loaded)
     if not free.any():
         return []
     scale = float(np.max(np.abs(np.concatenate([b.s1[free], b.s2[free]]))))
@@ -80,7 +101,7 @@ def find_hot_spots(b: BoundarySamples, part: PartGeometry, loaded: set[tuple[int
         fmask = free[idx]
         if fmask.all():
             for k in local_maxima(b.s1[idx], True, prom):
-                cands.setdefault(int(idx[k]), "local maximum")
+                cands.setdefault(int(idx[k]), PeakReason.LOCAL)
         else:
             # start the cyclic sequence at a loaded sample so free runs do not wrap around
             start = int(np.argmin(fmask))
@@ -88,9 +109,9 @@ def find_hot_spots(b: BoundarySamples, part: PartGeometry, loaded: set[tuple[int
             for run in _runs(fmask[order]):
                 ids = idx[order[run]]
                 for k in local_maxima(b.s1[ids], False, prom):
-                    cands.setdefault(int(ids[k]), "local maximum")
+                    cands.setdefault(int(ids[k]), PeakReason.LOCAL)
     overall = int(np.where(free)[0][np.argmax(b.s1[free])])
-    cands[overall] = "overall maximum"
+    cands[overall] = PeakReason.OVERALL
     for f in part.features:
         if f.segments:
             m = np.zeros(b.s1.size, dtype=bool)
@@ -98,16 +119,16 @@ def find_hot_spots(b: BoundarySamples, part: PartGeometry, loaded: set[tuple[int
                 m |= (b.loop == li) & (b.segment == si)
             m &= free
             if m.any() and not any(m[i] for i in cands):
-                cands[int(np.where(m)[0][np.argmax(b.s1[m])])] = "feature maximum"
-    peaks: list[Peak] = []
-    corners = [f for f in part.features if f.kind == "sharp_corner"]
+                cands[int(np.where(m)[0][np.argmax(b.s1[m])])] = PeakReason.FEATURE
+    peaks: list[Candidate] = []
+    corners = [f for f in part.features if f.kind == FeatureKind.SHARP_CORNER]
     taken_corner: set[str] = set()
     for f in corners:
         d = np.hypot(b.xy[0] - f.point[0], b.xy[1] - f.point[1])
         m = (d <= corner_radius.get(f.name, 0.0)) & free
         if m.any():
             i = int(np.where(m)[0][np.argmax(b.s1[m])])
-            peaks.append(Peak(i, f, None, "corner"))
+            peaks.append(Candidate(i, f, None, PeakReason.CORNER))
             taken_corner.add(f.name)
             # drop other candidates in the corner's neighbourhood: they belong to the corner
             for j in [j for j in cands if m[j]]:
@@ -116,10 +137,11 @@ def find_hot_spots(b: BoundarySamples, part: PartGeometry, loaded: set[tuple[int
         ref = (int(b.loop[i]), int(b.segment[i]))
         f = owner.get(ref)
         edge = part.segment(ref).edge
-        peaks.append(Peak(i, f, edge, why))
-    # one hot spot per (feature, location): merge candidates closer than 1 % of the feature's size
+        peaks.append(Candidate(i, f, edge, why))
+    # one peak per (feature, location): merge candidates closer than MERGE_FRACTION of the feature's
+    # radius (or of the part's size for peaks with no radius)
     peaks.sort(key=lambda p: -b.s1[p.index])
-    kept: list[Peak] = []
+    kept: list[Candidate] = []
     for p in peaks:
         dup = False
         for q in kept:
@@ -131,11 +153,17 @@ def find_hot_spots(b: BoundarySamples, part: PartGeometry, loaded: set[tuple[int
     return kept
 
 
-def _merge_distance(p: Peak, part: PartGeometry) -> float:
+#: two candidates of one feature closer than this fraction of its radius are one peak; with no radius,
+#: closer than MERGE_PART_FRACTION of the part's size (our own thresholds)
+MERGE_FRACTION = 0.05
+MERGE_PART_FRACTION = 1e-3
+
+
+def _merge_distance(p: Candidate, part: PartGeometry) -> float:
     if p.feature is None or p.feature.radius <= 0:
         x0, y0, x1, y1 = part.bounding_box()
-        return 1e-3 * max(x1 - x0, y1 - y0)
-    return 0.05 * p.feature.radius
+        return MERGE_PART_FRACTION * max(x1 - x0, y1 - y0)
+    return MERGE_FRACTION * p.feature.radius
 
 
 #: half-width of the window for the local scatter, in boundary samples (about two facets of the
@@ -144,12 +172,12 @@ SCATTER_WINDOW = 7
 
 
 def local_scatter(b: BoundarySamples, index: int) -> float:
-    """Largest deviation of the boundary samples near a hot spot from a local quadratic fit in arc length.
+    """Largest deviation of the boundary samples near a peak from a local quadratic fit in arc length.
 
     P2 stresses jump between elements; this measures that roughness at the peak on the mesh itself and
     serves as a floor for uncertainty bands (a two-grid difference can be small by accident). Our own
     measure, no published source; at 16 elements per radius it bounded the error (against a 64 elements
-    per radius solution) of 7 of the 8 notch hot spots of the demo link and strip cases; the eighth was
+    per radius solution) of 7 of the 8 notch peaks of the demo link and strip cases; the eighth was
     covered by the two-grid band."""
     lo, hi = max(index - SCATTER_WINDOW, 0), min(index + SCATTER_WINDOW + 1, b.s.size)
     m = np.arange(lo, hi)

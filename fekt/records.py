@@ -1,0 +1,303 @@
+"""Typed result records, and the one serialiser that turns any of them into JSON-ready data.
+
+Every stage that reports something returns one of these frozen records: no dictionaries read by
+string keys, no field filled in later. They hold numbers and verdicts only; the sentences users read
+are written in :mod:`fekt.report`. This module sits at the bottom of the package: every stage may
+import it.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import math
+from dataclasses import dataclass, field
+from enum import Enum
+
+import numpy as np
+
+from .kinds import Basis, FeatureKind, PeakReason, Verdict
+
+#: schema versions of the JSON files fekt writes (raise the number when a key changes meaning)
+RESULT_SCHEMA = "fekt.result/2"
+STUDY_SCHEMA = "fekt.study/2"
+SWEEP_SCHEMA = "fekt.sweep/2"
+TARGET_SCHEMA = "fekt.target/2"
+CHARTS_SCHEMA = "fekt.charts/2"
+
+
+@dataclass(frozen=True)
+class SectionRecord:
+    """A section as reported: axial position, material intervals (transverse coordinate), width, area,
+    centroid point, second moment and polar moment."""
+
+    s: float
+    width: float
+    area: float
+    centroid: tuple[float, float]
+    inertia: float
+    intervals: tuple[tuple[float, float], ...]
+    polar: float = 0.0
+
+
+@dataclass(frozen=True)
+class Band:
+    """The discretisation uncertainty of one peak's Kt.
+
+    ``kt_net``/``kt_gross``: half-widths on Kt_net and Kt_gross (None where there is no band: a diverging
+    sequence, a singular corner). ``values_fine_to_coarse``: Kt_net on each mesh of the estimate.
+    ``convergence_band``: the band from the grid study alone; ``scatter_floor`` is True when the local
+    stress scatter at the peak was larger and set the band. ``largest_change`` is used for non-monotone
+    sequences. ``method`` is ``two-grid`` (fekt solve) or ``study`` (fekt converge)."""
+
+    verdict: Verdict
+    method: str
+    kt_net: float | None
+    kt_gross: float | None
+    values_fine_to_coarse: tuple[float, ...]
+    dofs_fine_to_coarse: tuple[int, ...] = ()
+    observed_order: float | None = None
+    order_used: float | None = None
+    gci_fs: float | None = None
+    extrapolated: float | None = None
+    convergence_band: float | None = None
+    scatter_floor: bool = False
+    largest_change: float | None = None
+    formal_order: float = 2.0
+
+
+@dataclass(frozen=True)
+class ChartCheck:
+    """A published chart fit beside the FE Kt of a peak (numbers only).
+
+    ``kind`` is ``family`` (the case is a standard shape) or ``nearest`` (the chart of the shape the
+    feature resembles, measured from the geometry). ``coverage`` is ``inside`` or ``outside``."""
+
+    kind: str
+    family: str
+    load: str
+    fit: str
+    source: str
+    confidence: str
+    from_memory: bool
+    basis: Basis
+    nominal: str
+    dims: dict[str, float]
+    chart_kt: float
+    fe_kt: float | None
+    difference_pct: float | None
+    band_pct: float
+    within_band: bool
+    coverage: str
+    coverage_notes: tuple[str, ...]
+    ratios: dict[str, float]
+    chart_kt_net: float | None = None
+
+
+@dataclass(frozen=True)
+class NoChart:
+    """Why a peak or a family case gets no chart value: ``reason`` is a code (see
+    :mod:`fekt.charts.crosscheck`), ``detail`` the published gap note or the measurement that failed."""
+
+    reason: str
+    detail: str = ""
+    family: str | None = None
+    load: str | None = None
+
+
+@dataclass(frozen=True)
+class StressPeak:
+    """One reported stress peak: where it is, what owns it, its net section, nominal stresses and Kt.
+
+    ``peak`` is the boundary stress the peaks are ranked by (the maximum principal stress);
+    ``scatter`` the roughness of the boundary stress there (stress units, a floor for the band);
+    ``band`` and ``chart`` are None when the estimate or the chart check was not asked for (or has
+    nothing to say: see ``chart``'s :class:`NoChart`)."""
+
+    rank: int
+    x: float
+    y: float
+    feature: str
+    feature_kind: FeatureKind
+    singular: bool
+    reason: PeakReason
+    peak: float
+    radius: float
+    element_size: float
+    net_section: SectionRecord
+    N: float
+    M: float
+    sigma_nom_net: float
+    kt_net: float | None
+    gross_end: str
+    sigma_nom_gross: float
+    kt_gross: float | None
+    equilibrium_error: float
+    scatter: float
+    band: Band | None = None
+    chart: ChartCheck | NoChart | None = None
+
+
+@dataclass(frozen=True)
+class MeshFacts:
+    elements: int
+    nodes: int
+    dofs: int
+    element: str
+    min_scaled_jacobian: float
+    size_max: float
+    feature_sizes: dict[str, float]
+    elements_per_radius: float
+    refine: int
+    area: float
+    solver: str
+
+
+@dataclass(frozen=True)
+class Timings:
+    """Seconds spent per stage of the fine-mesh pipeline (``total_s`` their sum); ``estimate_s`` the
+    coarse mesh of the two-grid band and ``wall_s`` the whole solve as the user waited for it, where known."""
+
+    geometry_s: float
+    mesh_s: float
+    assemble_s: float
+    solve_s: float
+    post_s: float
+    total_s: float
+    estimate_s: float | None = None
+    charts_s: float | None = None
+    wall_s: float | None = None
+
+
+@dataclass(frozen=True)
+class Provenance:
+    versions: dict[str, str]
+    case_sha256_16: str
+    max_reaction_over_load: float
+
+
+@dataclass(frozen=True)
+class UnitsRecord:
+    length: str
+    force: str
+    stress: str
+    moment: str
+
+
+@dataclass(frozen=True)
+class ComponentFacts:
+    """One load component as applied: its name, the load it belongs to, what it is and how big."""
+
+    name: str
+    load: str
+    quantity: str
+    magnitude: float
+
+
+@dataclass(frozen=True)
+class EndFacts:
+    name: str
+    width: float
+    moment: float
+    centroid: tuple[float, float]
+
+
+@dataclass(frozen=True)
+class LoadFacts:
+    """The applied loads: load axis, total axial force, loaded ends and every component."""
+
+    axis: tuple[float, float]
+    force: float
+    ends: tuple[EndFacts, ...]
+    components: tuple[ComponentFacts, ...]
+
+
+@dataclass(frozen=True)
+class Compressive:
+    sigma: float
+    x: float
+    y: float
+
+
+@dataclass(frozen=True)
+class EstimateFacts:
+    """How the bands of a solve were estimated (the two-grid estimate's coarse mesh)."""
+
+    method: str
+    ratio: float
+    coarse_dofs: int
+    coarse_seconds: float
+
+
+@dataclass(frozen=True)
+class FamilyCheck:
+    """A standard-shape case checked against its chart: which peak was compared, or why none was."""
+
+    family: str
+    load: str | None
+    peak_rank: int | None
+    no_chart: NoChart | None = None
+
+
+@dataclass(frozen=True)
+class Result:
+    """Everything ``fekt solve`` reports; :func:`to_jsonable` gives the JSON content."""
+
+    case_name: str
+    source: str
+    demo: bool
+    units: UnitsRecord
+    model: str
+    model_label: str
+    thickness: float
+    material: dict[str, float]
+    load: LoadFacts
+    mesh: MeshFacts
+    timings: Timings
+    peaks: tuple[StressPeak, ...]
+    most_compressive: Compressive
+    warnings: tuple[str, ...]
+    notes: tuple[str, ...]
+    caution: str
+    provenance: Provenance
+    estimate: EstimateFacts | None = None
+    family_check: FamilyCheck | None = None
+    schema: str = field(default=RESULT_SCHEMA)
+
+    def to_dict(self) -> dict:
+        return to_jsonable(self)
+
+    def peak(self, rank: int) -> StressPeak:
+        for p in self.peaks:
+            if p.rank == rank:
+                return p
+        raise KeyError(rank)
+
+
+def to_jsonable(x):
+    """Plain JSON data from records, enums, numpy values and containers (non-finite numbers become null;
+    dataclasses become objects with their field names, in order)."""
+    if dataclasses.is_dataclass(x) and not isinstance(x, type):
+        return {f.name: to_jsonable(getattr(x, f.name)) for f in dataclasses.fields(x)}
+    if isinstance(x, Enum):
+        return x.value
+    if isinstance(x, dict):
+        return {str(k): to_jsonable(v) for k, v in x.items()}
+    if isinstance(x, (list, tuple)):
+        return [to_jsonable(v) for v in x]
+    if isinstance(x, np.ndarray):
+        return [to_jsonable(v) for v in x.tolist()]
+    if isinstance(x, (bool, np.bool_)):
+        return bool(x)
+    if isinstance(x, (np.floating, float)):
+        v = float(x)
+        return v if math.isfinite(v) else None
+    if isinstance(x, np.integer):
+        return int(x)
+    return x
+
+
+__all__ = [
+    "Band", "ChartCheck", "ComponentFacts", "Compressive", "EndFacts", "EstimateFacts", "FamilyCheck",
+    "LoadFacts", "MeshFacts", "NoChart", "Provenance", "Result", "SectionRecord", "StressPeak", "Timings",
+    "UnitsRecord", "to_jsonable", "RESULT_SCHEMA", "STUDY_SCHEMA", "SWEEP_SCHEMA", "TARGET_SCHEMA", "CHARTS_SCHEMA",
+]
