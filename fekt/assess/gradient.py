@@ -125,7 +125,7 @@ class ChartGradient:
 #: with A = 2 (groove), 2.3 (shoulder); torsion G = B/r with B = 1 (groove), 1.15 (shoulder); plus 2/d
 #: for the net section in bending and torsion; phi = 1/(4 sqrt(t/r) + 2) for t/d <= 0.25, else 0.
 #: The transverse-hole entry 2.3/r is unverified, only suggested by Kirsch's exact value
-#: is 7/(3a) = 2.33/a).
+#: 7/(3a) = 2.33/a.
 CHART_GRADIENT_SOURCE = "FKM guideline, 6th ed. 2012, relative stress gradient of notched bars (from memory)"
 CHART_A_NORMAL = {NotchShape.GROOVE: 2.0, NotchShape.SHOULDER: 2.3, NotchShape.HOLE: 2.3}
 CHART_B_TORSION = {NotchShape.GROOVE: 1.0, NotchShape.SHOULDER: 1.15}
