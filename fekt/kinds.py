@@ -43,6 +43,15 @@ class PeakReason(StrEnum):
     CORNER = "corner"
 
 
+class Measure(StrEnum):
+    """The boundary stress that peaks are found and ranked by (signed; see fekt.post.measures)."""
+
+    TANGENTIAL = "tangential"
+    MAX_PRINCIPAL = "max_principal"
+    MIN_PRINCIPAL = "min_principal"
+    VON_MISES = "von_mises"
+
+
 class EquilibriumMode(StrEnum):
     """What a failed net-section equilibrium check does."""
 
@@ -72,4 +81,4 @@ class Verdict(StrEnum):
     TWO_GRID = "two-grid"
 
 
-__all__ = ["Basis", "CurveKind", "EquilibriumMode", "FeatureKind", "LoopKind", "PeakReason", "Verdict"]
+__all__ = ["Basis", "CurveKind", "EquilibriumMode", "FeatureKind", "LoopKind", "Measure", "PeakReason", "Verdict"]

@@ -105,11 +105,28 @@ class NoChart:
 
 
 @dataclass(frozen=True)
+class ComponentKt:
+    """One load component's share of a peak: its stress at the peak point (the tangential stress, or the
+    shear for a torque), its nominal stress on the net and gross sections, and its Kt on each."""
+
+    name: str
+    quantity: str
+    stress: float
+    sigma_nom_net: float
+    kt_net: float | None
+    sigma_nom_gross: float | None
+    kt_gross: float | None
+
+
+@dataclass(frozen=True)
 class StressPeak:
     """One reported stress peak: where it is, what owns it, its net section, nominal stresses and Kt.
 
-    ``peak`` is the boundary stress the peaks are ranked by (the maximum principal stress);
-    ``scatter`` the roughness of the boundary stress there (stress units, a floor for the band);
+    ``peak`` is the signed boundary stress the peaks are ranked by (its magnitude; the measure is
+    ``Result.measure``); Kt = peak / nominal stress keeps the sign convention of the nominal stress there
+    (positive where both have the same sign). ``components`` gives each load component's Kt at the same
+    point. ``gross_section`` is None where no gross section applies (``gross_rule`` says why).
+    ``scatter`` is the roughness of the boundary stress there (stress units, a floor for the band);
     ``band`` and ``chart`` are None when the estimate or the chart check was not asked for (or has
     nothing to say: see ``chart``'s :class:`NoChart`)."""
 
@@ -128,13 +145,19 @@ class StressPeak:
     M: float
     sigma_nom_net: float
     kt_net: float | None
-    gross_end: str
-    sigma_nom_gross: float
+    gross_section: SectionRecord | None
+    gross_rule: str
+    sigma_nom_gross: float | None
     kt_gross: float | None
     equilibrium_error: float
     scatter: float
+    components: tuple[ComponentKt, ...] = ()
     band: Band | None = None
     chart: ChartCheck | NoChart | None = None
+
+    @property
+    def compressive(self) -> bool:
+        return self.peak < 0
 
 
 @dataclass(frozen=True)
@@ -259,6 +282,7 @@ class Result:
     notes: tuple[str, ...]
     caution: str
     provenance: Provenance
+    measure: str = "tangential"
     estimate: EstimateFacts | None = None
     family_check: FamilyCheck | None = None
     schema: str = field(default=RESULT_SCHEMA)
@@ -297,7 +321,7 @@ def to_jsonable(x):
 
 
 __all__ = [
-    "Band", "ChartCheck", "ComponentFacts", "Compressive", "EndFacts", "EstimateFacts", "FamilyCheck",
+    "Band", "ChartCheck", "ComponentFacts", "ComponentKt", "Compressive", "EndFacts", "EstimateFacts", "FamilyCheck",
     "LoadFacts", "MeshFacts", "NoChart", "Provenance", "Result", "SectionRecord", "StressPeak", "Timings",
     "UnitsRecord", "to_jsonable", "RESULT_SCHEMA", "STUDY_SCHEMA", "SWEEP_SCHEMA", "TARGET_SCHEMA", "CHARTS_SCHEMA",
 ]

@@ -56,7 +56,7 @@ def test_strip_two_grid_band_contains_fine_reference(strip_reference):
     case = strip_case(d=12.0)
     r = run(case).result
     _, bands = two_grid_bands(case, r)
-    hole = [h for h in r.peaks if h.feature == "cut-out 'hole'"]
+    hole = [h for h in r.peaks if h.feature == "cut-out 'hole'" and h.peak > 0]  # the tensile peaks
     for h in hole:
         band = bands[h.rank].kt_gross
         err = abs(h.kt_gross - strip_reference)
@@ -66,7 +66,7 @@ def test_strip_two_grid_band_contains_fine_reference(strip_reference):
 def test_strip_study_extrapolates_to_the_reference(strip_reference):
     case = strip_case(d=12.0, mesh=MeshSpec(elements_per_radius=8))
     study = converge(case, levels=3)
-    hole = [s for s in study.spots if s.key == "cut-out 'hole'"]
+    hole = [s for s in study.spots if s.key == "cut-out 'hole'" and s.values[0] > 0]  # the tensile peaks
     assert hole
     for s in hole:
         assert s.band is not None

@@ -3,6 +3,7 @@
 
 from __future__ import annotations
 
+import dataclasses
 import os
 
 import numpy as np
@@ -25,8 +26,10 @@ def test_thin_ligament_warning():
                       mesh=MeshSpec(elements_per_radius=8))
     r = run(case, equilibrium="warn").result
     assert any("ligament" in w and "near edge" in w for w in r.warnings)
-    with pytest.raises(SolveError, match="ligament"):  # the default check fails and names the cause
-        run(case)
+    # on this mesh, which the user chose coarser than the default, the equilibrium miss is a warning with
+    # its number, beside the ligament warning that names the cause (it used to stop the solve)
+    warned = run(case).result.warnings
+    assert any("differ from statics by" in w for w in warned) and any("ligament" in w for w in warned)
 
 
 def test_peak_near_loaded_end_warning():

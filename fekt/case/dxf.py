@@ -78,7 +78,10 @@ def _bulge_pieces(p0, p1, bulge, layer, where) -> list[Piece]:
     r = chord / (2 * abs(math.sin(sweep / 2)))
     mx, my = (p0[0] + p1[0]) / 2, (p0[1] + p1[1]) / 2
     dx, dy = (p1[0] - p0[0]) / chord, (p1[1] - p0[1]) / chord
-    h = r * math.cos(sweep / 2)  # signed distance from chord midpoint to centre, to the left of travel
+    # signed distance from the chord's midpoint to the centre, to the left of travel: a counter-clockwise
+    # arc (bulge > 0) turns left, so its centre lies on the left for sweeps below 180 degrees; a clockwise
+    # arc (bulge < 0) has its centre on the right
+    h = math.copysign(r * math.cos(sweep / 2), bulge)
     cx, cy = mx - dy * h, my + dx * h
     a0 = math.degrees(math.atan2(p0[1] - cy, p0[0] - cx))
     a1 = math.degrees(math.atan2(p1[1] - cy, p1[0] - cx))
@@ -100,11 +103,17 @@ def _read_doc(source: str):
 
 def read_pieces(doc, scale: float, source: str) -> tuple[list[Piece], list[CutoutSpec]]:
     """Curves of the model space, in the case's unit; full circles and ellipses come back as cut-outs
-    directly (they are closed loops by themselves)."""
-    path = source  # noqa: F841 (messages name the file)
+    directly (they are closed loops by themselves). Entities drawn with an upside-down extrusion (a
+    mirrored coordinate system, as some programs save clockwise arcs) are turned upright first, and every
+    curve read is checked against ezdxf's own flattening of its entity."""
+    from ezdxf.upright import upright_all
+
+    path = source
     pieces: list[Piece] = []
     closed: list[CutoutSpec] = []
+    upright_all(doc.modelspace())
     for e in doc.modelspace():
+        before = len(pieces)
         kind = e.dxftype()
         layer = e.dxf.layer
         where = _where(e)
@@ -144,7 +153,70 @@ def read_pieces(doc, scale: float, source: str) -> tuple[list[Piece], list[Cutou
                 if math.dist((x0, y0), (x1, y1)) == 0:
                     continue
                 pieces += _bulge_pieces((x0, y0), (x1, y1), b, layer, where)
+        if len(pieces) > before:
+            check_against_flattening(e, pieces[before:], scale, path)
     return pieces, closed
+
+
+#: a curve read from an entity must lie within this fraction of the entity's size of ezdxf's own
+#: flattening of it, and have its length within LENGTH_TOLERANCE (our own tolerances: far above the
+#: flattening's sagitta, far below any misread arc)
+SHAPE_TOLERANCE = 1e-4
+LENGTH_TOLERANCE = 1e-3
+
+
+def _piece_points(pc: Piece, n: int = 64) -> list[tuple[float, float]]:
+    if pc.center is None:
+        return [pc.start, pc.end]
+    a0 = math.atan2(pc.start[1] - pc.center[1], pc.start[0] - pc.center[0])
+    a1 = math.atan2(pc.end[1] - pc.center[1], pc.end[0] - pc.center[0])
+    sw = (a1 - a0) % (2 * math.pi) if pc.ccw else -((a0 - a1) % (2 * math.pi))
+    return [(pc.center[0] + pc.radius * math.cos(a0 + sw * k / n), pc.center[1] + pc.radius * math.sin(a0 + sw * k / n))
+            for k in range(n + 1)]
+
+
+def check_against_flattening(entity, pieces: list[Piece], scale: float, source: str) -> None:
+    """The curves fekt built from an entity must trace the entity as ezdxf flattens it (same points, same
+    length); a mismatch stops with a message naming the entity, never a different part."""
+    from shapely.geometry import LineString, MultiLineString, Point
+
+    curves = [[(x * scale, y * scale) for x, y in c] for c in _flat_curves(entity)]
+    curves = [c for c in curves if len(c) >= 2]
+    if not curves:
+        return
+    theirs = MultiLineString(curves)
+    theirs_len = theirs.length
+    size = max(theirs_len, 1e-300)
+    mine = MultiLineString([_piece_points(pc) for pc in pieces])
+    worst = max(mine.distance(Point(q)) for c in curves for q in c)
+    ours_len = sum(_piece_length(pc) for pc in pieces)
+    if worst > SHAPE_TOLERANCE * size or abs(ours_len - theirs_len) > LENGTH_TOLERANCE * theirs_len:
+        raise CaseError(f"{_where(entity)} was not read faithfully: the curve fekt built lies up to {worst:.3g} "
+                        f"away from the drawing (length {ours_len:.6g} against {theirs_len:.6g})", item=source,
+                        hint="please report this with the drawing; as a workaround, explode the entity into "
+                             "LINE and ARC entities")
+
+
+def _flat_curves(entity) -> list[list[tuple[float, float]]]:
+    """ezdxf's own points along a LINE, ARC or LWPOLYLINE (exploded into its lines and arcs, one point list
+    each), in drawing units: arcs flattened on the circle itself (ARC.flattening), so the check carries no
+    approximation of its own."""
+    kind = entity.dxftype()
+    if kind == "LINE":
+        return [[(entity.dxf.start.x, entity.dxf.start.y), (entity.dxf.end.x, entity.dxf.end.y)]]
+    if kind == "ARC":
+        sagitta = 1e-6 * max(entity.dxf.radius, 1e-300)
+        return [[(v.x, v.y) for v in entity.flattening(sagitta)]]
+    if kind == "LWPOLYLINE":
+        return [c for sub in entity.virtual_entities() for c in _flat_curves(sub)]
+    return []
+
+
+def _piece_length(pc: Piece) -> float:
+    if pc.center is None:
+        return math.dist(pc.start, pc.end)
+    pts = _piece_points(pc, 256)
+    return sum(math.dist(a, b) for a, b in zip(pts[:-1], pts[1:]))
 
 
 def chain_loops(pieces: list[Piece], tol: float, source: str) -> list[list[Piece]]:
@@ -204,18 +276,72 @@ def _loop_area(loop: list[Piece]) -> float:
     return shoelace([p[0] for p in pts], [p[1] for p in pts])
 
 
+def canonical_loop(loop: list[Piece]) -> list[Piece]:
+    """The loop counter-clockwise, starting at its lowest-leftmost point: the same part drawn in either
+    direction, or with its entities in another order, gives the same chain (and the same vertex numbers)."""
+    if _loop_area(loop) < 0:
+        loop = [pc.reversed() for pc in reversed(loop)]
+    size = max(max(abs(c) for pc in loop for c in pc.start), 1e-300)
+    k = min(range(len(loop)), key=lambda i: (round(loop[i].start[0] / size, 9), round(loop[i].start[1] / size, 9)))
+    return loop[k:] + loop[:k]
+
+
 def loop_vertices(loop: list[Piece]) -> tuple[Vertex, ...]:
-    """A chain of vertices (with arc edges and layer names as edge names) for one loop."""
+    """A chain of vertices (with arc edges and layer names as edge names) for one loop, counter-clockwise
+    from its lowest-leftmost point (vertex numbers name unnamed features)."""
+    loop = canonical_loop(loop)
     ccw = _loop_area(loop) > 0
     out = []
-    for pc in loop:
+    for k, pc in enumerate(loop):
         edge = pc.layer if pc.layer not in ("0", "") else None
         if pc.center is None:
-            out.append(Vertex(pc.start[0], pc.start[1], edge=edge))
+            out.append(Vertex(pc.start[0], pc.start[1], edge=edge, index=k))
         else:
             out.append(Vertex(pc.start[0], pc.start[1], edge=edge, arc_radius=pc.radius,
-                              bulge="out" if pc.ccw == ccw else "in"))
+                              bulge="out" if pc.ccw == ccw else "in", index=k))
     return tuple(out)
+
+
+def drawing_texts(doc, scale: float) -> list[tuple[str, tuple[float, float]]]:
+    """(text, insertion point) of every TEXT and MTEXT entity: a text inside a hole names the hole."""
+    out = []
+    for e in doc.modelspace().query("TEXT MTEXT"):
+        try:
+            text = e.plain_text() if e.dxftype() == "MTEXT" else e.dxf.text
+            p = e.dxf.insert
+        except Exception:  # a damaged text entity names nothing
+            continue
+        text = " ".join(str(text).split())
+        if text:
+            out.append((text, (p.x * scale, p.y * scale)))
+    return out
+
+
+def _named_by_text(cutouts: list[CutoutSpec], texts) -> list[CutoutSpec]:
+    """Cut-outs renamed after the drawing's text placed inside them (first text wins; names stay unique)."""
+    from dataclasses import replace
+
+    from shapely.geometry import Point, Polygon
+
+    used = {c.name for c in cutouts}
+    out = []
+    for c in cutouts:
+        if c.shape == "circle":
+            inside = lambda q, c=c: math.dist(q, c.center) < c.diameter / 2  # noqa: E731
+        elif c.shape == "ellipse":
+            ca, sa = math.cos(math.radians(c.angle)), math.sin(math.radians(c.angle))
+            inside = lambda q, c=c, ca=ca, sa=sa: (((q[0] - c.center[0]) * ca + (q[1] - c.center[1]) * sa) / c.a) ** 2 \
+                + ((-(q[0] - c.center[0]) * sa + (q[1] - c.center[1]) * ca) / c.b) ** 2 < 1  # noqa: E731
+        else:
+            poly = Polygon([(v.x, v.y) for v in c.vertices])
+            inside = lambda q, poly=poly: poly.is_valid and poly.contains(Point(q))  # noqa: E731
+        name = next((t for t, q in texts if inside(q) and t not in used), None)
+        if name is not None:
+            used.discard(c.name)
+            used.add(name)
+            c = replace(c, name=name)
+        out.append(c)
+    return out
 
 
 def read_outline(path: str | Path, *, case_unit: str, drawing_unit: str | None = None,
@@ -249,6 +375,21 @@ def read_outline(path: str | Path, *, case_unit: str, drawing_unit: str | None =
     outline = loop_vertices(loops[0])
     cutouts = list(closed)
     for k, lp in enumerate(loops[1:], start=1):
-        cutouts.append(CutoutSpec(f"loop {k}", "chain", vertices=tuple(
-            Vertex(v.x, v.y, v.fillet, None, v.arc_radius, v.bulge) for v in loop_vertices(lp))))
-    return DxfOutline(outline, tuple(cutouts))
+        layers = {pc.layer for pc in lp} - {"0", ""}
+        name = layers.pop() if len(layers) == 1 else f"loop {k}"
+        cutouts.append(CutoutSpec(name, "chain", vertices=tuple(
+            Vertex(v.x, v.y, v.fillet, None, v.arc_radius, v.bulge, index=v.index) for v in loop_vertices(lp))))
+    return DxfOutline(outline, tuple(_unique_names(_named_by_text(cutouts, drawing_texts(doc, scale)))))
+
+
+def _unique_names(cutouts: list[CutoutSpec]) -> list[CutoutSpec]:
+    """Several holes on one layer: number them in drawing order ("bolt", "bolt 2", ...)."""
+    from dataclasses import replace
+
+    seen: dict[str, int] = {}
+    out = []
+    for c in cutouts:
+        n = seen.get(c.name, 0) + 1
+        seen[c.name] = n
+        out.append(c if n == 1 else replace(c, name=f"{c.name} {n}"))
+    return out

@@ -43,11 +43,13 @@ _T = TypeVar("_T")
 BULGES = ("out", "in")
 
 _TOP_KEYS = ("case", "units", "parameters", "part", "material", "load", "mesh")
-_CASE_KEYS = ("name", "description", "demo")
+_CASE_KEYS = ("name", "description", "demo", "measure")
+#: the boundary stresses peaks can be found by (values of fekt.kinds.Measure)
+MEASURES = ("tangential", "max_principal", "min_principal", "von_mises")
 _UNITS_KEYS = ("length", "force")
 _PART_KEYS = ("model", "thickness", "outline", "cutouts", "notches", "family", "dimensions", "dxf", "dxf_units",
               "dxf_tolerance")
-_OUTLINE_VERTEX_KEYS = ("x", "y", "edge", "fillet", "arc")
+_OUTLINE_VERTEX_KEYS = ("x", "y", "edge", "fillet", "arc", "name")
 # Cut-out chains have no edge names: nothing refers to the edges of a hole.
 _CHAIN_VERTEX_KEYS = ("x", "y", "fillet", "arc")
 _ARC_KEYS = ("radius", "bulge")
@@ -133,7 +135,7 @@ def case_from_dict(data: dict, source: str, overrides: Mapping[str, float] | Non
         root = {**root, "parameters": raw_params}
     # Sections are read in the order they usually appear in a file, so the first error reported
     # is the first one the reader meets.
-    name, description, demo = _case_info(root.get("case", {}), source)
+    name, description, demo, measure = _case_info(root.get("case", {}), source)
     units = _units(root.get("units", {}))
     params = resolve_parameters(root.get("parameters", {}), item_prefix="parameters")
     part = _part(F.required(root, "part", ""), params, catalogue, units, source)
@@ -144,7 +146,8 @@ def case_from_dict(data: dict, source: str, overrides: Mapping[str, float] | Non
     loads = (_load(F.required(root, "load", ""), ctx, catalogue, catalogue.models[part.model].default_load),)
     mesh = _mesh(root.get("mesh", {}), params)
     return Case(name=name, part=part, loads=loads, material=material, mesh=mesh, units=units,
-                description=description, parameters=tuple(params.items()), source=source, demo=demo)
+                description=description, parameters=tuple(params.items()), source=source, demo=demo,
+                measure=measure)
 
 
 # --- [case] and [units] ------------------------------------------------------------------------------
@@ -156,13 +159,14 @@ def _default_name(source: str) -> str:
     return Path(source).stem
 
 
-def _case_info(raw: object, source: str) -> tuple[str, str, bool]:
+def _case_info(raw: object, source: str) -> tuple[str, str, bool, str]:
     table = F.table(raw, "case")
     F.check_keys(table, _CASE_KEYS, "case")
     name = F.name(table["name"], "case.name") if "name" in table else _default_name(source)
     description = F.text(table["description"], "case.description") if "description" in table else ""
     demo = F.flag(table["demo"], "case.demo") if "demo" in table else False
-    return name, description, demo
+    measure = F.choice(table["measure"], MEASURES, "case.measure") if "measure" in table else "tangential"
+    return name, description, demo, measure
 
 
 def _units(raw: object) -> Units:
@@ -251,7 +255,12 @@ def _items(table: Mapping[str, object], key: str, params: Mapping[str, float],
 def _outline(raw: object, params: Mapping[str, float]) -> tuple[Vertex, ...]:
     item = "part.outline"
     entries = F.array(raw, item)
-    vertices = tuple(_vertex(v, F.path(item, i), params, _OUTLINE_VERTEX_KEYS) for i, v in enumerate(entries))
+    vertices = tuple(_vertex(v, F.path(item, i), params, _OUTLINE_VERTEX_KEYS, index=i) for i, v in enumerate(entries))
+    for i, v in enumerate(vertices):
+        if v.name is not None and not (v.fillet > 0 or v.arc_radius is not None):
+            raise CaseError("only a fillet or an arc edge can be named (the name is the feature's)",
+                            item=f"{item}[{i}].name", hint="give the vertex a fillet or an arc, or remove the name")
+    F.unique([v.name for v in vertices if v.name is not None], item, "feature")
     named = [v.edge for v in vertices if v.edge is not None]
     # Loads and notches find edges by name, so a repeated name would silently pick several edges.
     indices = [i for i, v in enumerate(vertices) if v.edge is not None]
@@ -263,7 +272,8 @@ def _outline(raw: object, params: Mapping[str, float]) -> tuple[Vertex, ...]:
     return vertices
 
 
-def _vertex(raw: object, item: str, params: Mapping[str, float], keys: Sequence[str]) -> Vertex:
+def _vertex(raw: object, item: str, params: Mapping[str, float], keys: Sequence[str],
+            index: int | None = None) -> Vertex:
     table = F.table(raw, item)
     F.check_keys(table, keys, item)
     x = F.number(F.required(table, "x", item), params, F.path(item, "x"))
@@ -271,7 +281,8 @@ def _vertex(raw: object, item: str, params: Mapping[str, float], keys: Sequence[
     fillet = F.positive(table.get("fillet", 0.0), params, F.path(item, "fillet"), zero_ok=True)
     edge = F.name(table["edge"], F.path(item, "edge")) if "edge" in table else None
     arc_radius, bulge = _arc(table["arc"], F.path(item, "arc"), params) if "arc" in table else (None, "out")
-    return Vertex(x=x, y=y, fillet=fillet, edge=edge, arc_radius=arc_radius, bulge=bulge)
+    name = F.name(table["name"], F.path(item, "name")) if "name" in table else None
+    return Vertex(x=x, y=y, fillet=fillet, edge=edge, arc_radius=arc_radius, bulge=bulge, name=name, index=index)
 
 
 def _arc(raw: object, item: str, params: Mapping[str, float]) -> tuple[float, str]:
@@ -319,7 +330,7 @@ def _cutout(raw: object, item: str, k: int, params: Mapping[str, float]) -> Cuto
     name = F.name(table["name"], F.path(item, "name")) if "name" in table else f"cut-out {k + 1}"
     if shape == "chain":
         entries = F.array(table["vertices"], F.path(item, "vertices"))
-        vertices = tuple(_vertex(v, F.path(F.path(item, "vertices"), j), params, _CHAIN_VERTEX_KEYS)
+        vertices = tuple(_vertex(v, F.path(F.path(item, "vertices"), j), params, _CHAIN_VERTEX_KEYS, index=j)
                          for j, v in enumerate(entries))
         return CutoutSpec(name=name, shape=shape, vertices=vertices)
     return CutoutSpec(

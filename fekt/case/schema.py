@@ -53,7 +53,9 @@ class Vertex:
     the next vertex. ``arc_radius``: if set, that edge is a circular arc of this radius, bulging
     ``"out"`` of the region the chain encloses or ``"in"`` towards it. ``feature``: the kind of notch
     feature this vertex's fillet or (concave) arc edge forms, when the generator that made the vertex
-    knows better than the default (a fillet is a fillet, an inward arc edge a concave arc).
+    knows better than the default (a fillet is a fillet, an inward arc edge a concave arc). ``name``:
+    the user's name for the feature at this vertex (its fillet, or its arc edge); ``index``: the vertex's
+    position in the chain as the case file wrote it (stable names and messages refer to it).
     """
 
     x: float
@@ -64,6 +66,8 @@ class Vertex:
     bulge: str = "out"
     label: str | None = None  # names the item that made this vertex (e.g. a notch), for messages
     feature: FeatureKind | None = None
+    name: str | None = None
+    index: int | None = None
 
 
 def shoelace(xs, ys) -> float:
@@ -175,3 +179,4 @@ class Case:
     parameters: tuple[tuple[str, float], ...] = ()
     source: str = ""  # path of the case file, if any
     demo: bool = False
+    measure: str = "tangential"  # the boundary stress peaks are found by (fekt.kinds.Measure)

@@ -28,8 +28,8 @@ def _shoulder(D: float, d: float, r: float, L: float) -> tuple[Vertex, ...]:
     h = (D - d) / 2
     if r <= h:
         return (Vertex(0.0, 0.0, edge="bottom_wide"), Vertex(L, 0.0, edge="step_bottom"),
-                Vertex(L, h, fillet=r, edge="bottom_narrow"), Vertex(2 * L, h, edge="right"),
-                Vertex(2 * L, h + d, edge="top_narrow"), Vertex(L, h + d, fillet=r, edge="step_top"),
+                Vertex(L, h, fillet=r, edge="bottom_narrow", name="bottom"), Vertex(2 * L, h, edge="right"),
+                Vertex(2 * L, h + d, edge="top_narrow"), Vertex(L, h + d, fillet=r, edge="step_top", name="top"),
                 Vertex(L, D, edge="top_wide"), Vertex(0.0, D, edge="left"))
     # tangent point on the narrow edge at x = L + r; the arc's centre is at (L + r, h - r)
     run = math.sqrt(r * r - (r - h) ** 2)
@@ -37,10 +37,10 @@ def _shoulder(D: float, d: float, r: float, L: float) -> tuple[Vertex, ...]:
     x0 = xt - run
     fillet = FeatureKind.FILLET
     return (Vertex(0.0, 0.0, edge="bottom_wide"),
-            Vertex(x0, 0.0, arc_radius=r, bulge="in", label="fillet bottom", feature=fillet),
+            Vertex(x0, 0.0, arc_radius=r, bulge="in", feature=fillet, name="bottom"),
             Vertex(xt, h, edge="bottom_narrow"), Vertex(xt + L, h, edge="right"),
             Vertex(xt + L, h + d, edge="top_narrow"),
-            Vertex(xt, h + d, arc_radius=r, bulge="in", label="fillet top", feature=fillet),
+            Vertex(xt, h + d, arc_radius=r, bulge="in", feature=fillet, name="top"),
             Vertex(x0, D, edge="top_wide"), Vertex(0.0, D, edge="left"))
 
 

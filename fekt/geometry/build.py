@@ -42,7 +42,7 @@ def reverse_chain(vertices: list[Vertex]) -> list[Vertex]:
         e = vertices[(n - 2 - j) % n]  # the old edge that now starts at this vertex
         # the fillet stays with its vertex, the arc (and the feature it forms) with its edge
         out.append(Vertex(v.x, v.y, v.fillet, e.edge, e.arc_radius, e.bulge, v.label,
-                          v.feature if v.fillet else e.feature))
+                          v.feature if v.fillet else e.feature, v.name if v.fillet else e.name, v.index))
     return out
 
 
@@ -210,7 +210,8 @@ def chain_segments(vertices: list[Vertex], *, item: str, origin: str) -> list[Se
         t2 = P[i] + L * d_out
         c = P[i] + (v.fillet / math.sin(phi / 2)) * _unit(d_out - d_in)
         arc = Segment(ARC, tuple(t1), tuple(t2), tuple(c), v.fillet, cr > 0,
-                      origin=v.label or f"{origin} vertex {i} fillet", feature=v.feature or FeatureKind.FILLET)
+                      origin=v.label or f"{origin} vertex {i} fillet", feature=v.feature or FeatureKind.FILLET,
+                      name=_fillet_name(v, origin, i), vertex=v.index)
         fil[i] = (t1, t2, arc)
     segs: list[Segment] = []
     for i, v in enumerate(vertices):
@@ -232,7 +233,7 @@ def chain_segments(vertices: list[Vertex], *, item: str, origin: str) -> list[Se
                 continue  # the two fillets meet exactly: no straight piece left
         label = v.label or (f"{origin} edge {i}" + (f" '{v.edge}'" if v.edge else ""))
         if v.arc_radius is None:
-            segs.append(Segment(LINE, tuple(a), tuple(b), edge=v.edge, origin=label))
+            segs.append(Segment(LINE, tuple(a), tuple(b), edge=v.edge, origin=label, vertex=v.index))
             continue
         R = v.arc_radius
         chord = float(np.linalg.norm(b - a))
@@ -250,14 +251,48 @@ def chain_segments(vertices: list[Vertex], *, item: str, origin: str) -> list[Se
         # 'out' bulges to the right of travel on a counter-clockwise chain: centre on the left, CCW arc
         centre = mid + h * n_left if v.bulge == "out" else mid - h * n_left
         segs.append(Segment(ARC, tuple(a), tuple(b), tuple(centre), R, v.bulge == "out",
-                            edge=v.edge, origin=label, feature=v.feature or FeatureKind.CONCAVE_ARC))
+                            edge=v.edge, origin=label, feature=v.feature or FeatureKind.CONCAVE_ARC,
+                            name=_arc_name(v, vertices[j], origin, i), vertex=v.index))
     return segs
 
 
+def _fillet_name(v: Vertex, origin: str, i: int) -> str:
+    """A fillet's feature name: the user's name, its notch, or its vertex as written (never coordinates)."""
+    if v.name:
+        return f"fillet '{v.name}'"
+    if v.label:
+        return v.label
+    if v.index is not None:
+        return f"fillet at vertex {v.index}" + ("" if origin == "outline" else f" of {origin}")
+    return f"{origin} fillet {i}"
+
+
+def _arc_name(v: Vertex, nxt: Vertex, origin: str, i: int) -> str:
+    """An arc edge's feature name, the same whichever way the chain was written."""
+    word = "fillet" if v.feature == FeatureKind.FILLET else "arc"
+    if v.name:
+        return f"{word} '{v.name}'"
+    if v.label:
+        return v.label
+    if v.edge:
+        return f"{word} '{v.edge}'"
+    if v.index is not None and nxt.index is not None:
+        lo, hi = sorted((v.index, nxt.index))
+        return f"arc between vertices {lo} and {hi}" + ("" if origin == "outline" else f" of {origin}")
+    return f"{origin} arc {i}"
+
+
 def _ccw_chain(vertices: tuple[Vertex, ...]) -> list[Vertex]:
+    """The chain counter-clockwise, starting at its lowest-leftmost vertex: the same part written in either
+    direction, or from another starting vertex, becomes the same chain (and so the same mesh)."""
     verts = list(vertices)
     if len(verts) >= 3 and chain_signed_area(verts) < 0:
         verts = reverse_chain(verts)
+    if len(verts) >= 2:
+        # compared after rounding to 1e-9 of the part's size, so drawing noise cannot pick another start
+        size = max(max(abs(v.x), abs(v.y)) for v in verts) or 1.0
+        k = min(range(len(verts)), key=lambda i: (round(verts[i].x / size, 9), round(verts[i].y / size, 9)))
+        verts = verts[k:] + verts[:k]
     return verts
 
 
@@ -374,6 +409,9 @@ def build_part(spec: PartSpec) -> PartGeometry:
     if np.linalg.matrix_rank(P[1:] - P[0], tol=1e-12 * (1 + np.abs(P).max())) < 2:
         raise GeometryError("the outline encloses no area (all vertices lie on one line)", item="part.outline")
     verts = _ccw_chain(tuple(verts))
+    plain = None
+    if spec.notches:
+        plain = Loop(tuple(chain_segments(verts, item="part.outline", origin="outline")), LoopKind.OUTLINE, "outline")
     verts = insert_notches(verts, spec.notches)
     outline = Loop(tuple(chain_segments(verts, item="part.outline", origin="outline")), LoopKind.OUTLINE, "outline")
     names = [c.name for c in spec.cutouts]
@@ -386,7 +424,7 @@ def build_part(spec: PartSpec) -> PartGeometry:
     validate(loops)
     features, warnings = detect_features(loops, notch_names={n.name for n in spec.notches})
     warnings += proportion_warnings(loops, features)
-    return PartGeometry(tuple(loops), tuple(features), tuple(warnings))
+    return PartGeometry(tuple(loops), tuple(features), tuple(warnings), plain)
 
 
 #: proportions beyond which meshes get large or badly graded (our own limits)

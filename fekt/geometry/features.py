@@ -80,33 +80,10 @@ def detect_features(loops: list[Loop] | tuple[Loop, ...], notch_names: set[str] 
                 point=(float(pts[0].mean()), float(pts[1].mean())),
             ))
         else:
-            k = 0
-            segs = loop.segments
-            while k < len(segs):
-                s = segs[k]
-                if not _concave(s):
-                    k += 1
-                    continue
-                group = [k]
-                while k + 1 < len(segs) and _concave(segs[k + 1]) and segs[k + 1].origin == s.origin:
-                    k += 1
-                    group.append(k)
-                k += 1
-                mid_seg = segs[group[len(group) // 2]]
-                mid = mid_seg.point(0.5)[:, 0]
-                kind = s.feature or FeatureKind.CONCAVE_ARC
-                if kind == FeatureKind.NOTCH:
-                    name = s.origin
-                elif kind == FeatureKind.FILLET:
-                    name = f"fillet at ({_fmt(mid[0])}, {_fmt(mid[1])})"
-                else:
-                    name = f"concave arc at ({_fmt(mid[0])}, {_fmt(mid[1])})"
-                features.append(Feature(name=name, kind=kind, segments=tuple((li, g) for g in group),
-                                        radius=min(segs[g].curvature_radius() for g in group),
-                                        point=(float(mid[0]), float(mid[1]))))
+            features += concave_features(li, loop)
         for k, ang, p in corner_turns(loop):
             if ang < -CORNER_TOLERANCE_DEG:
-                name = f"sharp corner at ({_fmt(p[0])}, {_fmt(p[1])})"
+                name = _corner_name(loop, k)
                 features.append(Feature(name=name, kind=FeatureKind.SHARP_CORNER, segments=(), radius=0.0,
                                         point=p, singular=True))
                 where = "outline" if loop.kind == LoopKind.OUTLINE else f"cut-out '{loop.name}'"
@@ -117,5 +94,65 @@ def detect_features(loops: list[Loop] | tuple[Loop, ...], notch_names: set[str] 
     return features, warnings
 
 
-def _fmt(v: float) -> str:
-    return f"{v:.4g}"
+def _smooth(a: Segment, b: Segment) -> bool:
+    """True when curve b continues curve a without a corner."""
+    ta, tb = tangent(a, 1.0), tangent(b, 0.0)
+    return abs(math.degrees(math.atan2(ta[0] * tb[1] - ta[1] * tb[0], float(ta @ tb)))) <= CORNER_TOLERANCE_DEG
+
+
+def concave_features(li: int, loop: Loop) -> list[Feature]:
+    """One feature per chain of concave curves joined without a corner (a notch, fillet or scallop drawn
+    as several arcs is one feature), named by the generator's names (never coordinates)."""
+    segs = loop.segments
+    n = len(segs)
+    concave = [_concave(s) for s in segs]
+    if not any(concave):
+        return []
+    # start after a non-concave curve (or a corner) so that no chain is cut where the loop closes
+    start = 0
+    for k in range(n):
+        if not concave[k] or not _smooth(segs[k - 1], segs[k]) or not concave[k - 1]:
+            start = k
+            break
+    groups: list[list[int]] = []
+    for step in range(n):
+        k = (start + step) % n
+        if not concave[k]:
+            continue
+        if groups and groups[-1][-1] == (k - 1) % n and _smooth(segs[(k - 1) % n], segs[k]):
+            groups[-1].append(k)
+        else:
+            groups.append([k])
+    out = []
+    for group in groups:
+        members = [segs[g] for g in group]
+        kinds = {m.feature or FeatureKind.CONCAVE_ARC for m in members}
+        kind = FeatureKind.NOTCH if FeatureKind.NOTCH in kinds else (
+            FeatureKind.FILLET if kinds == {FeatureKind.FILLET} else FeatureKind.CONCAVE_ARC)
+        mid = members[len(members) // 2].point(0.5)[:, 0]
+        out.append(Feature(name=_group_name(loop, group), kind=kind, segments=tuple((li, g) for g in group),
+                           radius=min(m.curvature_radius() for m in members),
+                           point=(float(mid[0]), float(mid[1]))))
+    return out
+
+
+def _group_name(loop: Loop, group: list[int]) -> str:
+    segs = loop.segments
+    names = list(dict.fromkeys(segs[g].name or segs[g].origin for g in group))
+    if len(names) == 1:
+        return names[0]
+    ends = [segs[g].vertex for g in group] + [segs[(group[-1] + 1) % len(segs)].vertex]
+    known = [v for v in ends if v is not None]
+    where = "" if loop.kind == LoopKind.OUTLINE else f" of cut-out '{loop.name}'"
+    if known:
+        return f"concave curve from vertex {min(known)} to {max(known)}{where}"
+    return f"{names[0]} to {names[-1]}"
+
+
+def _corner_name(loop: Loop, k: int) -> str:
+    """A sharp corner's name: the user's vertex where it lies, or the item that made it."""
+    seg = loop.segments[k]
+    where = "" if loop.kind == LoopKind.OUTLINE else f" of cut-out '{loop.name}'"
+    if seg.vertex is not None:
+        return f"sharp corner at vertex {seg.vertex}{where}"
+    return f"sharp corner of {seg.origin}"

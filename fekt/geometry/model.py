@@ -50,6 +50,8 @@ class Segment:
     edge: str | None = None
     origin: str = ""
     feature: FeatureKind | None = None
+    name: str | None = None  # the feature name of a concave curve (set by the generator, stable)
+    vertex: int | None = None  # the user's vertex this curve starts at or rounds (None: generated)
 
     # -- geometry helpers -------------------------------------------------------------------
     def sweep(self) -> float:
@@ -129,13 +131,11 @@ class Segment:
         return min(self.a, self.b) ** 2 / max(self.a, self.b)
 
     def reversed(self) -> "Segment":
-        if self.kind == LINE:
-            return Segment(LINE, self.end, self.start, edge=self.edge, origin=self.origin, feature=self.feature)
-        if self.kind == ARC:
-            return Segment(ARC, self.end, self.start, self.center, self.radius, not self.ccw,
-                           edge=self.edge, origin=self.origin, feature=self.feature)
-        return Segment(ELLIPSE, self.start, self.end, self.center, 0.0, not self.ccw,
-                       self.a, self.b, self.angle, self.edge, self.origin, self.feature)
+        from dataclasses import replace
+
+        if self.kind == ELLIPSE:
+            return replace(self, ccw=not self.ccw)
+        return replace(self, start=self.end, end=self.start, ccw=not self.ccw)
 
     def sample(self, max_angle: float = math.radians(1.0), max_len: float | None = None) -> np.ndarray:
         """Points along the segment including both ends, (2, n)."""
@@ -190,6 +190,7 @@ class PartGeometry:
     loops: tuple[Loop, ...]
     features: tuple[Feature, ...] = field(default=())
     warnings: tuple[str, ...] = field(default=())
+    plain_outline: Loop | None = None  # the outline before notches were cut into it (gross sections)
 
     @property
     def outline(self) -> Loop:

@@ -152,5 +152,77 @@ def net_section(part: PartGeometry, feature: Feature, axis: np.ndarray, polygon:
                               bounds=(float(a), float(b)), method="bounded",
                               options={"xatol": 1e-10 * (hi - lo)})
         if res.fun < best_w:
-            best_s = float(res.x)
+            best_s, best_w = float(res.x), float(res.fun)
+    best_s = _plateau_middle(lambda c: section_at(part, axis, c, poly).width, best_s, best_w,
+                             lo + pad, hi - pad, math.sqrt(poly.area))
     return section_at(part, axis, best_s, poly)
+
+
+#: widths within this fraction of the smallest are the same width (a plateau: our own tolerance, far
+#: above the round-off of exact intersections and far below any real difference)
+PLATEAU_TOLERANCE = 1e-9
+
+
+def _plateau_middle(width, s0: float, w0: float, lo: float, hi: float, scale: float) -> float:
+    """The middle of the run of positions around ``s0`` where the width stays at its minimum ``w0``.
+
+    Where the smallest width is reached over a range (the straight part of an inclined slot, a notch with
+    a flat root), the net section is placed at the middle of that range, so that a feature's own symmetry
+    is kept (mirror-image peaks get the same section)."""
+    tol = PLATEAU_TOLERANCE * max(w0, scale)
+
+    def flat(c: float) -> bool:
+        return width(c) <= w0 + tol
+
+    step = 1e-6 * (hi - lo)
+    if not flat(max(s0 - step, lo)) and not flat(min(s0 + step, hi)):
+        return s0  # a single smallest width (a hole, a notch root): nothing to centre
+    ends = []
+    for limit in (lo, hi):
+        if flat(limit):
+            ends.append(limit)
+            continue
+        inside, outside = s0, limit
+        for _ in range(60):  # bisection to round-off
+            mid = 0.5 * (inside + outside)
+            if flat(mid):
+                inside = mid
+            else:
+                outside = mid
+            if abs(outside - inside) <= 1e-12 * max(abs(hi - lo), 1e-300):
+                break
+        ends.append(inside)
+    if ends[1] - ends[0] <= 1e-9 * max(hi - lo, 1e-300):
+        return s0
+    return 0.5 * (ends[0] + ends[1])
+
+
+def gross_cut(part: PartGeometry, feature: Feature, axis: np.ndarray, s: float) -> tuple[Cut | None, str]:
+    """The gross section of a feature at axial position ``s`` and the rule that gave it (docs/conventions.md):
+
+    * a hole or cut-out: the cut with the cut-out filled in;
+    * a notch: the cut of the outline without its notches;
+    * a fillet or concave arc at a width step: the wider of the cuts just beyond the feature's ends;
+    * otherwise (sharp corners): none."""
+    from dataclasses import replace
+
+    from ..kinds import FeatureKind
+
+    if feature.kind in (FeatureKind.HOLE, FeatureKind.CUTOUT):
+        li = feature.segments[0][0]
+        filled = replace(part, loops=tuple(lp for k, lp in enumerate(part.loops) if k != li))
+        return section_at(filled, axis, s), "cut-out filled in"
+    if feature.kind == FeatureKind.NOTCH and part.plain_outline is not None:
+        plain = replace(part, loops=(part.plain_outline,) + part.loops[1:])
+        return section_at(plain, axis, s), "outline without notches"
+    if feature.kind in (FeatureKind.FILLET, FeatureKind.CONCAVE_ARC):
+        lo, hi = feature_extent(part, feature, axis)
+        poly = part_polygon(part)
+        pad = 1e-3 * max(hi - lo, 1e-9 * math.sqrt(poly.area))
+        cuts = [section_at(part, axis, lo - pad, poly), section_at(part, axis, hi + pad, poly)]
+        wide = max(cuts, key=lambda c: c.width)
+        net = section_at(part, axis, s, poly)
+        if wide.width <= net.width * (1 + PLATEAU_TOLERANCE):
+            return None, "not applicable: no width step at this feature"
+        return replace(wide, s=s), "wider side of the step"
+    return None, "not applicable"

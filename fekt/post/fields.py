@@ -217,16 +217,21 @@ def point_field(sol: Solution, operator: str, u: np.ndarray, cells: np.ndarray, 
     return PointField(value, grad)
 
 
-def probe_stress(sol: Solution, points: np.ndarray, factors: Mapping[str, float] | None = None) -> Stress:
-    """Stress of a load case (default: every component with factor 1) at interior points (2, n)."""
+def probe_components(sol: Solution, points: np.ndarray) -> dict[str, Stress]:
+    """Stress of every load component at interior points (2, n); the points are located once."""
     mesh = next(iter(sol.systems.values())).basis.mesh
     cells, ref = locate(mesh, points)
-    weights = factors if factors is not None else {f.component.name: 1.0 for f in sol.fields}
     comps = {}
     for f in sol.fields:
         op = sol.model.operator(f.component.operator)
         comps[f.component.name] = op.stress(point_field(sol, op.name, f.u, cells, ref), points, sol.E, sol.nu)
-    return combine(comps, weights)
+    return comps
+
+
+def probe_stress(sol: Solution, points: np.ndarray, factors: Mapping[str, float] | None = None) -> Stress:
+    """Stress of a load case (default: every component with factor 1) at interior points (2, n)."""
+    comps = probe_components(sol, points)
+    return combine(comps, factors if factors is not None else {k: 1.0 for k in comps})
 
 
 def probe_displacement(sol: Solution, points: np.ndarray, component: str | None = None) -> np.ndarray:

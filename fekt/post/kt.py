@@ -5,14 +5,15 @@ Conventions (docs/conventions.md):
   (geometry.sections.net_section); for a peak with no feature, the cut through the peak;
 * resultants on a cut from statics of the applied loads (each load component's ``statics``);
 * the nominal stress is the model's formula (beam theory for plates: sigma_nom = N / A + M (y - yc) / I),
-  with y the peak's transverse coordinate clamped to the section's extent (so a fillet or notch-root
-  peak uses the outer fibre of the net section);
-* Kt_net = sigma_peak / sigma_nom(net); Kt_gross likewise on the gross section, which is the larger
-  of the two loaded end sections, carried to the peak's position.
+  with y the peak's transverse coordinate moved to the nearest material of the section (so a fillet or
+  notch-root peak uses the outer fibre of the net section, a hole's peak the hole's edge);
+* Kt_net = sigma_peak / sigma_nom(net); Kt_gross likewise on the gross section (the same cut without the
+  feature: geometry.sections.gross_cut), under the same force system reduced to its own centroid.
 """
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 import numpy as np
@@ -22,7 +23,7 @@ from ..geometry.sections import transverse
 from ..loads.base import Applied
 from ..models.base import Model, Resultants, Section
 from ..solver.linear import Solution
-from .fields import probe_stress
+from .fields import probe_components
 
 #: relative tolerance of the equilibrium check on each net section (our own requirement: 0.5 %)
 EQUILIBRIUM_TOLERANCE = 0.005
@@ -51,10 +52,20 @@ class Nominal:
         return self.resultants.M
 
 
+def nominal_height(section: Section, y_peak: float) -> float:
+    """Where on a section the nominal stress of a peak is evaluated: the peak's transverse coordinate, moved
+    to the nearest point of material when it falls in a gap of the section (a peak on a hole's edge is
+    evaluated at the hole's edge, never inside the hole; docs/conventions.md)."""
+    best, dist = y_peak, math.inf
+    for lo, hi in section.intervals:
+        y = min(max(y_peak, lo), hi)
+        if abs(y - y_peak) < dist:
+            best, dist = y, abs(y - y_peak)
+    return float(best)
+
+
 def nominal_stress(model: Model, section: Section, resultants: Resultants, y_peak: float) -> Nominal:
-    lo = min(a for a, _ in section.intervals)
-    hi = max(b for _, b in section.intervals)
-    y = float(np.clip(y_peak, lo, hi))
+    y = nominal_height(section, y_peak)
     return Nominal(section, resultants, y, model.nominal(resultants, section.props, y))
 
 
@@ -66,12 +77,6 @@ def kt(peak: float, nominal: Nominal) -> float | None:
     if scale == 0 or abs(nominal.sigma) < NOMINAL_ZERO * scale:
         return None
     return peak / nominal.sigma
-
-
-def gross_section(applied: Applied) -> tuple[str, Section]:
-    """The larger of the two loaded end sections (its name and section)."""
-    e1, e2 = applied.ends
-    return (e1.name, e1.section) if e1.section.area >= e2.section.area else (e2.name, e2.section)
 
 
 @dataclass(frozen=True)
@@ -90,8 +95,8 @@ class EquilibriumCheck:
         return max(self.error_N, self.error_M)
 
 
-def section_resultants_fe(sol: Solution, section: Section, axis: np.ndarray, thickness: float) -> Resultants:
-    """Resultants from integrating the FE stress over the cut (Gauss-Legendre on sub-intervals)."""
+def cut_points(section: Section, axis: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Gauss-Legendre points (2, n) over the cut's material intervals, their transverse coordinates and weights."""
     e = transverse(axis)
     g, w = np.polynomial.legendre.leggauss(CUT_GAUSS_POINTS)
     ys, ws = [], []
@@ -102,20 +107,29 @@ def section_resultants_fe(sol: Solution, section: Section, axis: np.ndarray, thi
         ys.append((mid[:, None] + half[:, None] * g[None, :]).ravel())
         ws.append((half[:, None] * w[None, :]).ravel())
     y = np.concatenate(ys)
-    wt = np.concatenate(ws)
-    pts = section.s * axis[:, None] + y[None, :] * e[:, None]
-    return sol.model.cut_resultants(probe_stress(sol, pts), axis, y, wt, section.yc, thickness)
+    return section.s * axis[:, None] + y[None, :] * e[:, None], y, np.concatenate(ws)
 
 
 def check_equilibrium(sol: Solution, section: Section, applied: Applied, thickness: float) -> EquilibriumCheck:
+    """Each load component's FE section forces on the cut against its statics; the worst error of them."""
     axis = np.array(applied.axis)
-    st = applied.resultants(section)
-    fe = section_resultants_fe(sol, section, axis, thickness)
+    pts, y, wt = cut_points(section, axis)
+    stresses = probe_components(sol, pts)
     c = 0.5 * section.width
-    # scales: the larger of the axial and the bending contributions, as force and as moment
-    f_scale = max(abs(st.N), abs(st.M) * c / section.inertia * section.area if section.inertia else 0.0, 1e-300)
-    m_scale = max(abs(st.M), abs(st.N) * section.inertia / (c * section.area) if section.area else 0.0, 1e-300)
-    return EquilibriumCheck(fe, st, abs(fe.N - st.N) / f_scale, abs(fe.M - st.M) / m_scale)
+    worst = None
+    total_fe, total_st = Resultants(), Resultants()
+    for comp in applied.components:
+        st = comp.statics(section)
+        fe = sol.model.cut_resultants(stresses[comp.name], axis, y, wt, section.yc, thickness)
+        total_fe, total_st = total_fe + fe, total_st + st
+        # scales: the larger of the axial and the bending contributions, as force and as moment
+        f_scale = max(abs(st.N), abs(st.M) * c / section.inertia * section.area if section.inertia else 0.0, 1e-300)
+        m_scale = max(abs(st.M), abs(st.N) * section.inertia / (c * section.area) if section.area else 0.0, 1e-300)
+        errs = (abs(fe.N - st.N) / f_scale, abs(fe.M - st.M) / m_scale)
+        if worst is None or max(errs) > max(worst):
+            worst = errs
+    worst = worst or (0.0, 0.0)
+    return EquilibriumCheck(total_fe, total_st, worst[0], worst[1])
 
 
 def require_equilibrium(check: EquilibriumCheck, where: str) -> None:

@@ -1,12 +1,14 @@
-"""Stress peaks: local maxima of the boundary maximum principal stress, each with its owning feature.
+"""Stress peaks: local extremes of a signed boundary stress, tensile and compressive, with their owners.
 
-Rules (our own, documented in docs/conventions.md):
-* samples on loaded end edges are excluded (their stress is the applied traction, not a notch effect);
-* a local maximum counts when its prominence is at least PROMINENCE of the largest boundary stress
+The stress a peak is measured by (the *measure*) is the tangential normal stress on the traction-free
+boundary by default (:mod:`fekt.post.measures`). Rules (our own, documented in docs/conventions.md):
+* samples on loaded boundaries are excluded (their stress is the applied traction, not a notch effect);
+* a tensile peak is a local maximum of a positive measure, a compressive peak a local minimum of a
+  negative one; either counts when its prominence is at least PROMINENCE of the largest boundary stress
   magnitude, which filters the element-to-element jitter of discontinuous P2 stresses;
-* the overall maximum of the free boundary is always a peak (even on a plain strip);
-* every notch feature gets at least one peak (its maximum) even when it is not a local peak;
-* a sharp re-entrant corner gets the largest sample within a few element sizes of it.
+* the largest magnitude on the free boundary is always a peak (even on a plain strip);
+* every notch feature gets its largest magnitude as a peak even when it is not a local extreme;
+* a sharp re-entrant corner gets the largest magnitude within a few element sizes of it.
 """
 
 from __future__ import annotations
@@ -14,13 +16,12 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.signal import find_peaks
 
 from ..geometry.model import Feature, PartGeometry
 from ..kinds import FeatureKind, LoopKind, PeakReason
 from .fields import BoundarySamples
 
-#: a local maximum counts when its prominence is at least this fraction of the largest boundary stress
+#: a local extreme counts when its prominence is at least this fraction of the largest boundary stress
 #: magnitude (filters the element-to-element jitter of discontinuous P2 stresses; our own threshold)
 PROMINENCE = 0.02
 
@@ -33,6 +34,7 @@ class Candidate:
     feature: Feature | None
     edge: str | None
     why: PeakReason
+    vertex: int | None = None  # the user's vertex of the curve it lies on (names edge peaks)
 
 
 def _runs(mask: np.ndarray) -> list[np.ndarray]:
@@ -44,6 +46,74 @@ def _runs(mask: np.ndarray) -> list[np.ndarray]:
     return np.split(idx, cuts)
 
 
+def _range_min(values: np.ndarray):
+    """A sparse table answering min(values[i:j+1]) in constant time."""
+    table = [values]
+    k = 1
+    while 2 * k <= values.size:
+        prev = table[-1]
+        table.append(np.minimum(prev[:-k], prev[k:]))
+        k *= 2
+
+    def query(i: np.ndarray, j: np.ndarray) -> np.ndarray:
+        length = j - i + 1
+        level = np.floor(np.log2(np.maximum(length, 1))).astype(int)
+        out = np.empty(i.size)
+        for lv in np.unique(level):
+            m = level == lv
+            t = table[lv]
+            out[m] = np.minimum(t[i[m]], t[j[m] - (1 << lv) + 1])
+        return out
+
+    return query
+
+
+def _nearest_higher(values: np.ndarray, reverse: bool) -> np.ndarray:
+    """Index of the nearest strictly higher sample before each sample (after, with ``reverse``); -1 or
+    n where there is none (a monotonic stack, linear time)."""
+    n = values.size
+    out = np.full(n, n if reverse else -1)
+    stack: list[int] = []
+    order = range(n - 1, -1, -1) if reverse else range(n)
+    for i in order:
+        while stack and values[stack[-1]] <= values[i]:
+            stack.pop()
+        if stack:
+            out[i] = stack[-1]
+        stack.append(i)
+    return out
+
+
+def _peaks_with_prominence(values: np.ndarray, prominence: float) -> np.ndarray:
+    """Local maxima (a plateau counts once, at its middle) whose prominence reaches ``prominence``.
+
+    Prominence: the height above the higher of the two lowest points between the peak and the nearest
+    strictly higher sample on each side (or the end of the signal), the usual topographic definition
+    (as scipy.signal.peak_prominences uses; written here so that no signal-processing package is loaded)."""
+    n = values.size
+    if n < 3:
+        return np.array([], dtype=int)
+    # plateaus: runs of equal values; a run is a peak when both neighbours are lower
+    change = np.flatnonzero(np.diff(values) != 0)
+    starts = np.concatenate([[0], change + 1])
+    ends = np.concatenate([change, [n - 1]])
+    left_lower = np.zeros(starts.size, dtype=bool)
+    right_lower = np.zeros(starts.size, dtype=bool)
+    left_lower[1:] = values[starts[1:] - 1] < values[starts[1:]]
+    right_lower[:-1] = values[ends[:-1] + 1] < values[ends[:-1]]
+    keep = left_lower & right_lower
+    peaks = (starts[keep] + (ends[keep] - starts[keep]) // 2).astype(int)
+    if peaks.size == 0:
+        return peaks
+    lo = _nearest_higher(values, reverse=False)[peaks]
+    hi = _nearest_higher(values, reverse=True)[peaks]
+    rmin = _range_min(values)
+    left_base = rmin(np.maximum(lo, 0), peaks)
+    right_base = rmin(peaks, np.minimum(hi, n - 1))
+    prom = values[peaks] - np.maximum(left_base, right_base)
+    return peaks[prom >= prominence]
+
+
 def local_maxima(values: np.ndarray, cyclic: bool, prominence: float) -> np.ndarray:
     """Indices of local maxima with at least the given prominence."""
     n = values.size
@@ -51,12 +121,18 @@ def local_maxima(values: np.ndarray, cyclic: bool, prominence: float) -> np.ndar
         return np.array([int(np.argmax(values))]) if n else np.array([], dtype=int)
     if cyclic:
         tiled = np.concatenate([values, values, values])
-        pk, _ = find_peaks(tiled, prominence=prominence)
+        pk = _peaks_with_prominence(tiled, prominence)
         pk = pk[(pk >= n) & (pk < 2 * n)] - n
         return np.unique(pk)
     padded = np.concatenate([[-np.inf], values, [-np.inf]])
-    pk, _ = find_peaks(padded, prominence=prominence)
-    return pk - 1
+    return _peaks_with_prominence(padded, prominence) - 1
+
+
+def local_extremes(values: np.ndarray, cyclic: bool, prominence: float) -> np.ndarray:
+    """Tensile maxima (positive local maxima) and compressive minima (negative local minima)."""
+    up = local_maxima(values, cyclic, prominence)
+    down = local_maxima(-values, cyclic, prominence)
+    return np.concatenate([up[values[up] > 0], down[values[down] < 0]]).astype(int)
 
 
 def feature_of_segment(part: PartGeometry) -> dict[tuple[int, int], Feature]:
@@ -83,15 +159,18 @@ def free_mask(b: BoundarySamples, loaded: set[tuple[int, int]]) -> np.ndarray:
 
 
 def find_peaks_on_boundary(b: BoundarySamples, part: PartGeometry, loaded: set[tuple[int, int]],
-                           corner_radius: dict[str, float]) -> list[Candidate]:
-    """Peaks of s1 on the free boundary; see the module docstring for the rules.
+                           corner_radius: dict[str, float], measure: np.ndarray) -> list[Candidate]:
+    """Tensile and compressive peaks of the signed ``measure`` (one value per boundary sample) on the free
+    boundary; see the module docstring for the rules.
 
     ``loaded``: (loop, segment) pairs that carry load; ``corner_radius``: search radius around each sharp
     corner (a few local element sizes)."""
     free = free_mask(b, loaded)
     if not free.any():
         return []
-    scale = float(np.max(np.abs(np.concatenate([b.s1[free], b.s2[free]]))))
+    m = measure
+    mag = np.abs(m)
+    scale = float(np.max(mag[free]))
     prom = PROMINENCE * scale
     owner = feature_of_segment(part)
     cands: dict[int, str] = {}
@@ -100,7 +179,7 @@ def find_peaks_on_boundary(b: BoundarySamples, part: PartGeometry, loaded: set[t
         idx = np.where(in_loop)[0]
         fmask = free[idx]
         if fmask.all():
-            for k in local_maxima(b.s1[idx], True, prom):
+            for k in local_extremes(m[idx], True, prom):
                 cands.setdefault(int(idx[k]), PeakReason.LOCAL)
         else:
             # start the cyclic sequence at a loaded sample so free runs do not wrap around
@@ -108,44 +187,49 @@ def find_peaks_on_boundary(b: BoundarySamples, part: PartGeometry, loaded: set[t
             order = np.roll(np.arange(idx.size), -start)
             for run in _runs(fmask[order]):
                 ids = idx[order[run]]
-                for k in local_maxima(b.s1[ids], False, prom):
+                for k in local_extremes(m[ids], False, prom):
                     cands.setdefault(int(ids[k]), PeakReason.LOCAL)
-    overall = int(np.where(free)[0][np.argmax(b.s1[free])])
-    cands[overall] = PeakReason.OVERALL
+    # the largest tension and the largest compression on the free boundary (the latter when it is more
+    # than jitter), even on a plain strip where neither is a local extreme
+    idx_free = np.where(free)[0]
+    for i in (idx_free[np.argmax(m[idx_free])], idx_free[np.argmin(m[idx_free])]):
+        if abs(m[i]) >= prom or mag[i] == scale:
+            cands[int(i)] = PeakReason.OVERALL
     for f in part.features:
         if f.segments:
-            m = np.zeros(b.s1.size, dtype=bool)
+            on = np.zeros(m.size, dtype=bool)
             for li, si in f.segments:
-                m |= (b.loop == li) & (b.segment == si)
-            m &= free
-            if m.any() and not any(m[i] for i in cands):
-                cands[int(np.where(m)[0][np.argmax(b.s1[m])])] = PeakReason.FEATURE
+                on |= (b.loop == li) & (b.segment == si)
+            on &= free
+            if on.any() and not any(on[i] for i in cands):
+                cands[int(np.where(on)[0][np.argmax(mag[on])])] = PeakReason.FEATURE
     peaks: list[Candidate] = []
     corners = [f for f in part.features if f.kind == FeatureKind.SHARP_CORNER]
     taken_corner: set[str] = set()
     for f in corners:
         d = np.hypot(b.xy[0] - f.point[0], b.xy[1] - f.point[1])
-        m = (d <= corner_radius.get(f.name, 0.0)) & free
-        if m.any():
-            i = int(np.where(m)[0][np.argmax(b.s1[m])])
+        near = (d <= corner_radius.get(f.name, 0.0)) & free
+        if near.any():
+            i = int(np.where(near)[0][np.argmax(mag[near])])
             peaks.append(Candidate(i, f, None, PeakReason.CORNER))
             taken_corner.add(f.name)
             # drop other candidates in the corner's neighbourhood: they belong to the corner
-            for j in [j for j in cands if m[j]]:
+            for j in [j for j in cands if near[j]]:
                 del cands[j]
     for i, why in cands.items():
         ref = (int(b.loop[i]), int(b.segment[i]))
         f = owner.get(ref)
-        edge = part.segment(ref).edge
-        peaks.append(Candidate(i, f, edge, why))
+        seg = part.segment(ref)
+        peaks.append(Candidate(i, f, seg.edge, why, seg.vertex))
     # one peak per (feature, location): merge candidates closer than MERGE_FRACTION of the feature's
     # radius (or of the part's size for peaks with no radius)
-    peaks.sort(key=lambda p: -b.s1[p.index])
+    peaks.sort(key=lambda p: -mag[p.index])
     kept: list[Candidate] = []
     for p in peaks:
         dup = False
         for q in kept:
-            if (p.feature is q.feature) and np.hypot(*(b.xy[:, p.index] - b.xy[:, q.index])) <= _merge_distance(p, part):
+            if (p.feature is q.feature) and np.sign(m[p.index]) == np.sign(m[q.index]) and \
+                    np.hypot(*(b.xy[:, p.index] - b.xy[:, q.index])) <= _merge_distance(p, part):
                 dup = True
                 break
         if not dup:
@@ -171,7 +255,7 @@ def _merge_distance(p: Candidate, part: PartGeometry) -> float:
 SCATTER_WINDOW = 7
 
 
-def local_scatter(b: BoundarySamples, index: int) -> float:
+def local_scatter(b: BoundarySamples, index: int, measure: np.ndarray | None = None) -> float:
     """Largest deviation of the boundary samples near a peak from a local quadratic fit in arc length.
 
     P2 stresses jump between elements; this measures that roughness at the peak on the mesh itself and
@@ -185,6 +269,6 @@ def local_scatter(b: BoundarySamples, index: int) -> float:
     if m.size < 5:
         return 0.0
     x = b.s[m] - b.s[index]
-    y = b.s1[m]
+    y = (b.s1 if measure is None else measure)[m]
     c = np.polyfit(x, y, 2)
     return float(np.max(np.abs(y - np.polyval(c, x))))

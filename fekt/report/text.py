@@ -27,17 +27,36 @@ def table(headers: list[str], rows: list[list[str]]) -> list[str]:
     return out
 
 
+MEASURE_WORDS = {
+    "tangential": "tangential boundary stress",
+    "max_principal": "largest principal boundary stress",
+    "min_principal": "smallest principal boundary stress",
+    "von_mises": "von Mises equivalent boundary stress",
+}
+QUANTITY_UNITS = {"force": "force", "moment": "moment", "torque": "moment"}
+
+
+def _component_text(r: Result) -> str:
+    parts = []
+    for c in r.load.components:
+        unit = getattr(r.units, QUANTITY_UNITS.get(c.quantity, "force"), "")
+        parts.append(f"{c.name} {num(c.magnitude)} {unit}")
+    return ", ".join(parts)
+
+
 def format_result(r: Result) -> str:
     su, lu = r.units.stress, r.units.length
     lines = [f"fekt: {r.case_name}" + ("   [demo data: invented part]" if r.demo else "")]
     if r.source:
         lines.append(f"case file: {r.source}")
     ends = r.load.ends
-    lines.append(f"{r.model_label}, thickness {num(r.thickness)} {lu}; "
-                 f"axial force {num(r.load.force)} {r.units.force}, moments "
-                 f"{num(ends[0].moment)} at '{ends[0].name}' and {num(ends[1].moment)} at "
-                 f"'{ends[1].name}' ({r.units.moment})")
+    lines.append(f"{r.model_label}, thickness {num(r.thickness)} {lu}; loads: {_component_text(r)}")
+    if len(ends) == 2 and (ends[0].moment or ends[1].moment):
+        lines.append(f"  end moments {num(ends[0].moment)} at '{ends[0].name}' and {num(ends[1].moment)} at "
+                     f"'{ends[1].name}' ({r.units.moment})")
     lines.append("")
+    names = [c.name for c in r.load.components]
+    per_component = len(names) > 1
     rows = []
     for h in r.peaks:
         feat = h.feature + (" [SINGULAR]" if h.singular else "")
@@ -46,17 +65,26 @@ def format_result(r: Result) -> str:
         unc = ""
         if h.band is not None:
             unc = "+-" + num(h.band.kt_net, 2) if h.band.kt_net is not None else "(no band)"
-        rows.append([str(h.rank), feat, f"({num(h.x, 5)}, {num(h.y, 5)})", num(h.peak),
-                     num(h.sigma_nom_net), kt_net + (f" {unc}" if unc else ""), num(h.kt_gross),
-                     num(h.net_section.width), f"{num(h.element_size, 3)} / {rad}"])
-    lines.append(f"Stress peaks (boundary maximum principal stress, ranked; stresses in {su}, lengths in {lu}):")
+        row = [str(h.rank), feat, f"({num(h.x, 5)}, {num(h.y, 5)})", num(h.peak),
+               num(h.sigma_nom_net), kt_net + (f" {unc}" if unc else ""), num(h.kt_gross)]
+        if per_component:
+            by = {c.name: c for c in h.components}
+            row += [num(by[n].kt_net) if n in by else "-" for n in names]
+        rows.append(row + [num(h.net_section.width), f"{num(h.element_size, 3)} / {rad}"])
+    measure = MEASURE_WORDS.get(r.measure, r.measure)
+    lines.append(f"Stress peaks ({measure}, tensile and compressive, ranked by magnitude; stresses in {su}, "
+                 f"lengths in {lu}):")
     lines += table(["#", "feature", "at (x, y)", "sigma_peak", "sigma_nom", "Kt_net", "Kt_gross",
-                    "net width", "elem size / radius"], rows)
+                    *(f"Kt_net {n}" for n in (names if per_component else ())), "net width",
+                    "elem size / radius"], rows)
     lines.append("")
-    gross_end = r.peaks[0].gross_end if r.peaks else ""
-    lines.append(f"Kt_net = sigma_peak / sigma_nom on the net section (shortest cut normal to the load axis "
-                 f"through the owning feature; sigma_nom = N/A + M*y/I by beam theory). Kt_gross uses the "
-                 f"section of end '{gross_end}' (the wider loaded end).")
+    lines.append("Kt = sigma_peak / sigma_nom, signed: positive where the peak and the nominal stress there have "
+                 "the same sign (a compressive peak under a compressive nominal stress has a positive Kt). "
+                 "Net section: the shortest cut normal to the load axis through the owning feature; sigma_nom = "
+                 "N/A + M*y/I by beam theory from statics. Gross section: the same cut without the feature "
+                 "(none for shoulders without a width step, corners and plain edges).")
+    if per_component:
+        lines.append("Kt_net <component>: each load component alone, at the same point, on its own nominal stress.")
     c = r.most_compressive
     lines.append(f"Most compressive boundary stress: {num(c.sigma)} {su} at ({num(c.x, 5)}, {num(c.y, 5)})")
     if r.estimate is not None:
@@ -69,16 +97,17 @@ def format_result(r: Result) -> str:
             continue
         seen.add(h.feature)
         s = h.net_section
+        g = h.gross_section
+        gross = f"gross width {num(g.width)} {lu} ({h.gross_rule})" if g is not None else f"gross: {h.gross_rule}"
         lines.append(f"  net section for {h.feature}: width {num(s.width)} {lu}, area {num(s.area)} {lu}^2, "
                      f"centroid ({num(s.centroid[0], 5)}, {num(s.centroid[1], 5)}), N = {num(h.N)}, "
-                     f"M = {num(h.M)}, equilibrium error {num(100 * h.equilibrium_error, 2)} %")
+                     f"M = {num(h.M)}, equilibrium error {num(100 * h.equilibrium_error, 2)} %; {gross}")
     m, t = r.mesh, r.timings
     lines.append("")
     lines.append(f"Mesh: {m.elements} curved 6-node triangles, {m.dofs} DOFs, min scaled Jacobian "
                  f"{num(m.min_scaled_jacobian, 3)}, {num(m.elements_per_radius, 3)} elements per notch radius, "
                  f"largest element {num(m.size_max, 3)} {lu}; solver {m.solver}")
-    lines.append(f"Time: mesh {t.mesh_s:.2f} s, assemble {t.assemble_s:.2f} s, solve {t.solve_s:.2f} s, "
-                 f"post {t.post_s:.2f} s, total {t.total_s:.2f} s")
+    lines.append(time_line(t))
     for n in r.notes:
         lines.append(f"note: {n}")
     for w in r.warnings:
@@ -87,6 +116,19 @@ def format_result(r: Result) -> str:
         lines.append("* singular stress peak: its value grows with mesh refinement; it is not a property of the part")
     lines.append(f"Caution: {r.caution}")
     return "\n".join(lines)
+
+
+def time_line(t) -> str:
+    """Wall time as the user waited for it first (when known), then the stages."""
+    stages = (f"geometry {t.geometry_s:.2f} s, mesh {t.mesh_s:.2f} s, assemble {t.assemble_s:.2f} s, "
+              f"solve {t.solve_s:.2f} s, post {t.post_s:.2f} s")
+    if t.estimate_s is not None:
+        stages += f", band mesh {t.estimate_s:.2f} s"
+    if t.charts_s is not None:
+        stages += f", charts {t.charts_s:.2f} s"
+    if t.wall_s is not None:
+        return f"Time: {t.wall_s:.2f} s wall ({stages})"
+    return f"Time: {stages}; total {t.total_s:.2f} s"
 
 
 def chart_lines(r: Result) -> list[str]:
