@@ -91,6 +91,7 @@ class ChartCheck:
     coverage_notes: tuple[str, ...]
     ratios: dict[str, float]
     chart_kt_net: float | None = None
+    component: str = ""  # the load component compared ("" when the load has one component)
 
 
 @dataclass(frozen=True)
@@ -102,6 +103,7 @@ class NoChart:
     detail: str = ""
     family: str | None = None
     load: str | None = None
+    component: str = ""
 
 
 @dataclass(frozen=True)
@@ -154,6 +156,7 @@ class StressPeak:
     components: tuple[ComponentKt, ...] = ()
     band: Band | None = None
     chart: ChartCheck | NoChart | None = None
+    component_charts: tuple[ChartCheck | NoChart, ...] = ()
 
     @property
     def compressive(self) -> bool:

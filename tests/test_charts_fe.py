@@ -22,9 +22,10 @@ from fekt.report.words import no_chart_text
 def family_chart(r) -> dict:
     """The family check of a result as one dict: the compared peak's chart record with its verdict."""
     check = r.family_check
-    if check.peak_rank is None:
+    record = r.peak(check.peak_rank).chart if check.peak_rank is not None else None
+    if not isinstance(record, ChartCheck):
         return {"verdict": "no chart", "reason": no_chart_text(check.no_chart)}
-    chk = to_jsonable(r.peak(check.peak_rank).chart)
+    chk = to_jsonable(record)
     chk["verdict"] = "outside coverage" if chk["coverage"] == "outside" else "within coverage"
     return chk
 

@@ -61,11 +61,11 @@ def test_resume_computes_only_missing_points(tmp_path, monkeypatch, capsys):
     real = sw.run_point
     calls = []
 
-    def interrupted(table, source, index, values, estimate=True):
+    def interrupted(table, source, index, values, estimate=True, feature=None):
         if len(calls) == 2:
             raise KeyboardInterrupt
         calls.append(index)
-        return real(table, source, index, values, estimate)
+        return real(table, source, index, values, estimate, feature)
 
     monkeypatch.setattr(sw, "run_point", interrupted)
     assert main(args) == 130
@@ -94,10 +94,12 @@ def test_goal_seek_reproduces_howland():
     table = read_case_table(STRIP)
     t = sw.goal_seek(table, STRIP, "d", 3.36, (4.0, 20.0), basis="gross")
     assert abs(t.value / 40.0 - 0.3) <= 0.02
-    assert t.kt_net == pytest.approx(3.36, abs=max(t.kt_net_band or 0, 5e-3))
+    assert t.kt == pytest.approx(3.36, abs=max(t.kt_band or 0, 5e-3))
+    assert t.keeps_below == "below"  # a smaller hole keeps Kt lower
+    assert t.feature == "cut-out 'hole'"
 
 
 def test_cli_target(capsys):
     assert main(["target", STRIP, "--vary", "d", "--kt", "3.36", "--basis", "gross", "--bounds", "8:16"]) == 0
     out = capsys.readouterr().out
-    assert out.startswith("d = ") and "Brent" in out
+    assert out.startswith("d <= ") and "keeps Kt_gross of 'cut-out 'hole'' at or below 3.36" in out

@@ -30,6 +30,23 @@ from .fits import ChartFit, coverage, gap_for, kt_as, primary_fit
 #: a hole counts as central in its strip if its centre is within this fraction of the local width
 #: from the strip's mid-line (our own threshold)
 CENTRAL_TOLERANCE = 0.02
+#: widths next to a fillet count as constant within this fraction (our own threshold)
+PRISMATIC_TOLERANCE = 0.01
+
+
+def _u_flanks(part: PartGeometry, f) -> bool:
+    """A U-notch: its root is one arc whose neighbouring curves are straight and parallel."""
+    if len(f.segments) != 1:
+        return False
+    li, si = f.segments[0]
+    segs = part.loops[li].segments
+    before, after = segs[si - 1], segs[(si + 1) % len(segs)]
+    if before.kind != "line" or after.kind != "line":
+        return False
+    d1 = np.subtract(before.end, before.start)
+    d2 = np.subtract(after.end, after.start)
+    cross = float(d1[0] * d2[1] - d1[1] * d2[0]) / (np.linalg.norm(d1) * np.linalg.norm(d2))
+    return abs(cross) < np.sin(np.radians(1.0))
 
 
 #: reasons for "no chart" (codes; the report words them)
@@ -39,17 +56,25 @@ NO_NOTCH_PEAK = "no notch peak"
 NOT_RESEMBLING = "resembles no chart"
 
 
+#: the chart load that each kind of load component is compared with
+CHART_LOAD = {"force": "tension", "moment": "bending", "torque": "torsion"}
+
+
 def load_kind(result: Result) -> str | None:
-    """'tension' or 'bending' when the load is one of them alone, else None (combined load)."""
+    """The chart load when the load has one component ('tension', 'bending', 'torsion'), else None."""
     quantities = {c.quantity for c in result.load.components if c.magnitude != 0}
-    if quantities == {"force"}:
-        return "tension"
-    if quantities == {"moment"}:
-        return "bending"
+    if len(quantities) == 1:
+        return CHART_LOAD.get(quantities.pop())
     return None
 
 
-def _compare(kind: str, fit: ChartFit, dims: dict, fe_net: float | None, fe_gross: float | None) -> ChartCheck:
+def _component_kts(peak) -> list[tuple[str, str, float | None, float | None]]:
+    """(component name, chart load, Kt_net, Kt_gross) of each load component of a peak."""
+    return [(c.name, CHART_LOAD.get(c.quantity, c.quantity), c.kt_net, c.kt_gross) for c in peak.components]
+
+
+def _compare(kind: str, fit: ChartFit, dims: dict, fe_net: float | None, fe_gross: float | None,
+             component: str = "") -> ChartCheck:
     cov = coverage(fit, **dims)
     chart = fit.kt(**dims)
     fe = fe_net if fit.basis == "net" else fe_gross
@@ -59,65 +84,88 @@ def _compare(kind: str, fit: ChartFit, dims: dict, fe_net: float | None, fe_gros
         from_memory=fit.from_memory, basis=Basis(fit.basis), nominal=fit.nominal, dims=dict(dims), chart_kt=chart,
         fe_kt=fe, difference_pct=diff, band_pct=100.0 * fit.band,
         within_band=(diff is not None and abs(diff) <= 100.0 * fit.band), coverage=cov.verdict,
-        coverage_notes=tuple(cov.messages), ratios={k: v for k, v in cov.ratios})
+        coverage_notes=tuple(cov.messages), ratios={k: v for k, v in cov.ratios}, component=component)
 
 
 def family_dims(case: Case) -> dict:
     return SHAPES[case.part.family].chart_dims(dict(case.part.dimensions))
 
 
-def family_check(case: Case, result: Result) -> tuple[FamilyCheck, ChartCheck | None]:
-    """Chart versus FE for a family case: the check and the record for the compared peak."""
+def family_check(case: Case, result: Result) -> tuple[FamilyCheck, ChartCheck | NoChart | None,
+                                                    tuple[ChartCheck | NoChart, ...]]:
+    """Chart versus FE for a family case: the check, the compared peak's record for the load case, and one
+    record per load component when the load has several (each component against its own chart)."""
     fam = case.part.family
     load = load_kind(result)
-    if load is None:
-        return FamilyCheck(fam, None, None, NoChart(COMBINED_LOAD, family=fam)), None
     dims = family_dims(case)
+    spots = [h for h in result.peaks if h.feature_kind != FeatureKind.EDGE and h.kt_net is not None and h.peak > 0]
+    if not spots:
+        return FamilyCheck(fam, load, None, NoChart(NO_NOTCH_PEAK, family=fam, load=load)), None, ()
+    top = max(spots, key=lambda h: h.kt_net)
+    per = tuple(_family_component(fam, name, kind, dims, kn, kg) for name, kind, kn, kg in _component_kts(top)) \
+        if len(top.components) > 1 else ()
+    if load is None:
+        return FamilyCheck(fam, None, top.rank, NoChart(COMBINED_LOAD, family=fam)), NoChart(COMBINED_LOAD), per
     fit = primary_fit(fam, load, dims, allow_low=True)  # low confidence is labelled
     if fit is None:
         gap = gap_for(fam, load)
-        return FamilyCheck(fam, load, None, NoChart(NO_FIT, gap.reason if gap else "", fam, load)), None
-    spots = [h for h in result.peaks if h.feature_kind != FeatureKind.EDGE and h.kt_net is not None]
-    if not spots:
-        return FamilyCheck(fam, load, None, NoChart(NO_NOTCH_PEAK, family=fam, load=load)), None
-    top = max(spots, key=lambda h: h.kt_net)
-    return FamilyCheck(fam, load, top.rank), _compare("family", fit, dims, top.kt_net, top.kt_gross)
+        no = NoChart(NO_FIT, gap.reason if gap else "", fam, load)
+        return FamilyCheck(fam, load, None, no), None, ()
+    return FamilyCheck(fam, load, top.rank), _compare("family", fit, dims, top.kt_net, top.kt_gross), per
+
+
+def _family_component(fam, name, kind, dims, kt_net, kt_gross) -> ChartCheck | NoChart:
+    if kind not in ("tension", "bending", "torsion") or fam not in SHAPES:
+        return NoChart(NO_FIT, f"no chart load for a {kind}", fam, kind, component=name)
+    try:
+        fit = primary_fit(fam, kind, dims, allow_low=True)
+    except Exception:  # a chart load unknown to this family's fits
+        fit = None
+    if fit is None:
+        gap = gap_for(fam, kind) if kind in ("tension", "bending") else None
+        return NoChart(NO_FIT, gap.reason if gap else "", fam, kind, component=name)
+    return _compare("family", fit, dims, kt_net, kt_gross, component=name)
 
 
 # --- nearest chart for free-form parts --------------------------------------------------------------
 
-def nearest_charts(part: PartGeometry, result: Result) -> dict[int, ChartCheck | NoChart]:
-    """Per notch feature (its first peak): the nearest chart's Kt_net beside the FE Kt_net, or why there is
-    none; keyed by the peak's rank."""
+def nearest_charts(part: PartGeometry, result: Result) -> dict[int, tuple[ChartCheck | NoChart, tuple]]:
+    """Per notch feature (its first tensile peak): the nearest chart's Kt_net beside the FE Kt_net, or why
+    there is none; for several load components, one comparison per component. Keyed by the peak's rank."""
     load = load_kind(result)
     axis = np.array(result.load.axis)
     e = transverse(axis)
     poly = part_polygon(part)
     feats = {f.name: f for f in part.features}
-    out: dict[int, ChartCheck | NoChart] = {}
+    out: dict[int, tuple[ChartCheck | NoChart, tuple]] = {}
     seen = set()
     for hs in result.peaks:
         f = feats.get(hs.feature)
-        if f is None or f.name in seen or hs.kt_net is None:
+        if f is None or f.name in seen or hs.kt_net is None or hs.peak <= 0:
             continue
         seen.add(f.name)
-        if load is None:
-            out[hs.rank] = NoChart(COMBINED_LOAD)
-            continue
         family, dims, why = _resemble(f, part, axis, e, poly, feats)
         if family is None:
-            out[hs.rank] = NoChart(NOT_RESEMBLING, why)
+            out[hs.rank] = (NoChart(NOT_RESEMBLING, why), ())
             continue
-        fit = primary_fit(family, load, dims, allow_low=True)
-        if fit is None:
-            gap = gap_for(family, load)
-            out[hs.rank] = NoChart(NO_FIT, gap.reason if gap else "", family, load)
+        per = tuple(_nearest(family, dims, kind, kn, kg, name) for name, kind, kn, kg in _component_kts(hs)) \
+            if len(hs.components) > 1 else ()
+        if load is None:
+            out[hs.rank] = (NoChart(COMBINED_LOAD), per)
             continue
-        check = _compare("nearest", fit, dims, hs.kt_net, hs.kt_gross)
-        chart_net = kt_as(fit, "net", **dims)
-        out[hs.rank] = dataclasses.replace(check, chart_kt_net=chart_net,
-                                           difference_pct=100.0 * (hs.kt_net - chart_net) / chart_net)
+        out[hs.rank] = (_nearest(family, dims, load, hs.kt_net, hs.kt_gross, ""), per)
     return out
+
+
+def _nearest(family, dims, load, kt_net, kt_gross, component) -> ChartCheck | NoChart:
+    fit = primary_fit(family, load, dims, allow_low=True) if load in ("tension", "bending") else None
+    if fit is None:
+        gap = gap_for(family, load) if load in ("tension", "bending") else None
+        return NoChart(NO_FIT, gap.reason if gap else "", family, load, component=component)
+    check = _compare("nearest", fit, dims, kt_net, kt_gross, component)
+    chart_net = kt_as(fit, "net", **dims)
+    return dataclasses.replace(check, chart_kt_net=chart_net,
+                               difference_pct=None if kt_net is None else 100.0 * (kt_net - chart_net) / chart_net)
 
 
 def _cut_width(part, axis, s, poly) -> float:
@@ -142,6 +190,12 @@ def _resemble(f, part, axis, e, poly, feats) -> tuple[str | None, dict, str]:
             return None, {}, f"the hole is off the strip's mid-line by {abs(yc - mid) / W:.1%} of the width"
         return "strip_hole", {"d": 2 * R, "W": W}, ""
     if f.kind in (FeatureKind.FILLET, FeatureKind.CONCAVE_ARC):
+        # a flat shoulder: one circular arc of at most a quarter turn between a step and a narrow part that
+        # both keep their width (prismatic) for a while, with a mirror fillet on the other side
+        if len(f.segments) != 1 or part.segment(f.segments[0]).kind != "arc":
+            return None, {}, "the feature is not a single circular arc"
+        if abs(part.segment(f.segments[0]).sweep()) > np.radians(90.0 + 1.0):
+            return None, {}, "the arc turns through more than a quarter turn: not a shoulder fillet"
         lo, hi = feature_extent(part, f, axis)
         net = net_section(part, f, axis, poly)
         pad = 1e-3 * (hi - lo + 1.0)
@@ -150,12 +204,20 @@ def _resemble(f, part, axis, e, poly, feats) -> tuple[str | None, dict, str]:
         D = max(w_lo, w_hi)
         if D <= net.width * (1 + 1e-6):
             return None, {}, "no width step at this fillet"
+        reach = max(2.0 * f.radius, 0.25 * net.width)
+        narrow_far = _cut_width(part, axis, (lo - reach) if w_lo < w_hi else (hi + reach), poly)
+        wide_far = _cut_width(part, axis, (hi + reach) if w_lo < w_hi else (lo - reach), poly)
+        narrow = min(w_lo, w_hi)
+        if abs(narrow_far - narrow) > PRISMATIC_TOLERANCE * narrow or abs(wide_far - D) > PRISMATIC_TOLERANCE * D:
+            return None, {}, "the widths on either side do not stay constant next to the fillet (no plain step)"
         twins = [g for g in feats.values() if g is not f and g.kind == f.kind
                  and abs(float(np.mean(feature_extent(part, g, axis))) - 0.5 * (lo + hi)) < 1e-6 * (1 + abs(lo))]
         if not twins:
             return None, {}, "one-sided step: the flat-shoulder chart is for a symmetric step"
         return "shoulder_fillet", {"D": D, "d": net.width, "r": f.radius}, ""
     if f.kind == FeatureKind.NOTCH:
+        if not _u_flanks(part, f):
+            return None, {}, "the notch flanks are not parallel (not a U-notch)"
         net = net_section(part, f, axis, poly)
         twins = [g for g in feats.values() if g is not f and g.kind == FeatureKind.NOTCH
                  and abs(net_section(part, g, axis, poly).s - net.s) < 1e-6 * (1 + abs(net.s))]
@@ -173,11 +235,13 @@ def _resemble(f, part, axis, e, poly, feats) -> tuple[str | None, dict, str]:
 def with_charts(case: Case, part: PartGeometry, result: Result) -> Result:
     """The result with each peak's chart check (the family check, or the nearest chart per feature)."""
     if case.part.family:
-        check, record = family_check(case, result)
-        peaks = tuple(dataclasses.replace(p, chart=record) if p.rank == check.peak_rank else p for p in result.peaks)
+        check, record, per = family_check(case, result)
+        peaks = tuple(dataclasses.replace(p, chart=record, component_charts=per) if p.rank == check.peak_rank else p
+                      for p in result.peaks)
         return dataclasses.replace(result, peaks=peaks, family_check=check)
     nearest = nearest_charts(part, result)
-    peaks = tuple(dataclasses.replace(p, chart=nearest.get(p.rank)) for p in result.peaks)
+    peaks = tuple(dataclasses.replace(p, chart=nearest[p.rank][0], component_charts=nearest[p.rank][1])
+                  if p.rank in nearest else p for p in result.peaks)
     return dataclasses.replace(result, peaks=peaks)
 
 

@@ -15,6 +15,7 @@ def add_parser(sub) -> None:
                    help="split every element in gmsh instead (ratio 2, the far field is refined too)")
     p.add_argument("--jobs", type=int, default=1, help="levels solved in parallel processes (default 1)")
     p.add_argument("--elements-per-radius", type=float, help="level 0: override the case's elements per radius")
+    p.add_argument("--feature", metavar="NAME", help="study only this feature's stress peaks")
     p.add_argument("--json", action="store_true", help="print the study as JSON")
     p.add_argument("--out", metavar="DIR", help="write study.json, study.csv, report.txt and convergence.png")
     p.add_argument("--force", action="store_true", help="replace DIR if it already exists")
@@ -48,6 +49,7 @@ def run(args) -> int:
 
     try:
         study = converge(case, levels=args.levels, ratio=args.ratio, nested=args.nested, jobs=args.jobs,
+                         feature=args.feature,
                          progress=progress)
     finally:
         if bar is not None:

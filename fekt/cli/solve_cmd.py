@@ -2,9 +2,11 @@
 
 from __future__ import annotations
 
+import dataclasses
 import json
 import os
 import sys
+import time
 
 
 def add_parser(sub) -> None:
@@ -29,7 +31,7 @@ def load(args):
     if not os.path.isfile(args.case):
         raise UsageError(f"case file '{args.case}' not found")
     case = load_case(args.case)
-    if args.elements_per_radius is not None:
+    if getattr(args, "elements_per_radius", None) is not None:
         if not args.elements_per_radius > 0:
             raise UsageError(f"--elements-per-radius {args.elements_per_radius:g} must be positive")
         case = dataclasses.replace(case, mesh=dataclasses.replace(case.mesh,
@@ -47,7 +49,11 @@ def run(args) -> int:
         check_out_dir(args.out, args.force)
     case = load(args)
     solved = solve_full(case, estimate=not args.no_estimate)
-    result = solved.result
+    from .main import STARTED
+
+    result = dataclasses.replace(solved.result, timings=dataclasses.replace(
+        solved.result.timings, wall_s=time.perf_counter() - STARTED))
+    solved = dataclasses.replace(solved, result=result)
     text = format_result(result)
     print(json.dumps(result.to_dict(), indent=2) if args.json else text)
     if args.out:

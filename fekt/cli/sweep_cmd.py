@@ -51,6 +51,8 @@ def add_parser(sub) -> None:
     p.add_argument("--basis", choices=("net", "gross"), default="net", help="which Kt to report and fit")
     p.add_argument("--fit", metavar="FORM", help="fit the results: poly:N, power, or cubic-sqrt (two parameters: "
                    "cubic in the first, coefficients linear in sqrt(second) and second)")
+    p.add_argument("--feature", metavar="NAME", help="the feature whose Kt the sweep reports and fits (default: the "
+                   "leading notch peak at each point); every peak of every point is kept in the files anyway")
     p.add_argument("--json", action="store_true", help="print the results as JSON")
     p.set_defaults(run=run_sweep)
 
@@ -61,6 +63,9 @@ def add_parser(sub) -> None:
     t.add_argument("--bounds", metavar="LO:HI", help="search range (default: half to one and a half times the "
                    "case's value)")
     t.add_argument("--basis", choices=("net", "gross"), default="net", help="Kt on the net or gross section")
+    t.add_argument("--feature", metavar="NAME", help="the feature whose Kt is held (default: the leading notch peak)")
+    t.add_argument("--out", metavar="DIR", help="write the search (target.json, report.txt) into DIR")
+    t.add_argument("--force", action="store_true", help="replace DIR if it already exists")
     t.add_argument("--json", action="store_true", help="print the answer as JSON")
     t.set_defaults(run=run_target)
 
@@ -110,20 +115,24 @@ def run_sweep(args) -> int:
 
     try:
         run_points(table, args.case, points, estimate=not args.no_estimate, executor=executor,
-                   workers=args.workers, scheduler=args.scheduler, skip=done.keys(), on_result=on_result)
+                   workers=args.workers, scheduler=args.scheduler, skip=done.keys(), on_result=on_result,
+                   feature=args.feature)
     finally:
         if bar is not None:
             bar.close()
         files.write_csv(results)
     results.sort(key=lambda r: r.index)
     fit = fit_results(results, names, args.fit, args.basis) if args.fit else None
-    text = format_sweep(results, names, args.basis, fit)
+    text = format_sweep(results, names, args.basis, fit, args.feature)
     data = {"schema": SWEEP_SCHEMA, "case": args.case, "varied": names, "basis": args.basis,
+            "feature": args.feature,
             "points": [r.to_json() for r in results], "resumed_points": len(done), "fit": to_jsonable(fit)}
     write_json(os.path.join(out, "sweep.json"), data)
     write_text(os.path.join(out, "report.txt"), text + "\n")
+    followed = args.feature or ", ".join(sorted({r.feature for r in results if r.status == "ok"})) or "-"
     write_sweep_plot(results, names, args.basis, os.path.join(out, "sweep.png"),
-                     f"{os.path.basename(args.case)}: Kt over {', '.join(names)}", fit)
+                     f"{os.path.basename(args.case)}: Kt_{args.basis} of {followed} over {', '.join(names)} "
+                     "(your own FE chart)", fit)
     print(json.dumps(data, indent=2) if args.json else text)
     if not args.json:
         print(f"wrote {out}/points.jsonl, sweep.csv, sweep.json, report.txt, sweep.png"
@@ -155,12 +164,26 @@ def run_target(args) -> int:
         lo, hi = 0.5 * params[args.vary], 1.5 * params[args.vary]
     if lo == hi:
         raise UsageError("--bounds must span a range")
-    quiet = args.json or not sys.stderr.isatty()
+    if args.out:
+        from .output import check_out_dir
 
-    def progress(x, kt):
-        if not quiet:
-            print(f"  {args.vary} = {x:.6g}: Kt_{args.basis} = {kt:.5g}", file=sys.stderr)
+        check_out_dir(args.out, args.force)
 
-    t = goal_seek(table, args.case, args.vary, args.kt, (lo, hi), basis=args.basis, progress=progress)
-    print(json.dumps({"schema": TARGET_SCHEMA, **to_jsonable(t)}, indent=2) if args.json else format_target(t))
-    return 0
+    def progress(p):
+        # one line per solve, on a terminal or in a log (a search of a dozen solves is not silent)
+        if not args.json:
+            what = f"Kt_{args.basis} = {p.kt:.5g}" if p.kt is not None else f"{p.status}: {p.message[:80]}"
+            print(f"  {args.vary} = {p.value:.6g}: {what}", file=sys.stderr, flush=True)
+
+    t = goal_seek(table, args.case, args.vary, args.kt, (lo, hi), basis=args.basis, feature=args.feature,
+                  progress=progress)
+    data = {"schema": TARGET_SCHEMA, "case": args.case, **to_jsonable(t)}
+    text = format_target(t)
+    print(json.dumps(data, indent=2) if args.json else text)
+    if args.out:
+        from ..report.files import write_json, write_text
+        from .output import write_out_dir
+
+        write_out_dir(args.out, {"target.json": lambda p: write_json(p, data),
+                                 "report.txt": lambda p: write_text(p, text + "\n")})
+    return 0 if t.reached else 2

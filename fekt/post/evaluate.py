@@ -108,14 +108,15 @@ def evaluate_peaks(samples: BoundarySamples, part: PartGeometry, pmesh: PartMesh
         net_res = _case_resultants(comps, factors, secs.net)
         nom = nominal_stress(model, secs.net, net_res, y_peak)
         gnom = None
+        y_gross = _gross_height(p.feature, secs.gross, y_peak)
         if secs.gross is not None:
-            gnom = nominal_stress(model, secs.gross, _case_resultants(comps, factors, secs.gross), y_peak)
+            gnom = nominal_stress(model, secs.gross, _case_resultants(comps, factors, secs.gross), y_gross)
         per = []
         for c in comps:
             cstt, _, csth = surf[c.name]
             cstress = float(component_measure(c.quantity, cstt, csth)[p.index])
             cn = nominal_stress(model, secs.net, c.statics(secs.net), y_peak)
-            cg = nominal_stress(model, secs.gross, c.statics(secs.gross), y_peak) if secs.gross is not None else None
+            cg = nominal_stress(model, secs.gross, c.statics(secs.gross), y_gross) if secs.gross is not None else None
             per.append(ComponentKt(c.name, c.quantity, cstress, cn.sigma, kt(cstress, cn),
                                    cg.sigma if cg else None, kt(cstress, cg) if cg else None))
         f = p.feature
@@ -139,6 +140,17 @@ def evaluate_peaks(samples: BoundarySamples, part: PartGeometry, pmesh: PartMesh
     ic = int(np.where(free)[0][np.argmin(stt[free])])
     comp = Compressive(float(stt[ic]), float(samples.xy[0, ic]), float(samples.xy[1, ic]))
     return PeakSet(peaks, comp, tuple(warnings))
+
+
+def _gross_height(feature: Feature | None, gross: Section | None, y_peak: float) -> float:
+    """Where the gross nominal stress is taken: for a notch or a step on the outline, the gross section's
+    outer fibre on the peak's side (as 6M/(t H^2) in the charts); for a hole, the hole's edge like the net
+    nominal stress (docs/conventions.md)."""
+    if gross is None or feature is None or feature.kind in (FeatureKind.HOLE, FeatureKind.CUTOUT):
+        return y_peak
+    lo = min(a for a, _ in gross.intervals)
+    hi = max(b for _, b in gross.intervals)
+    return lo if abs(y_peak - lo) <= abs(y_peak - hi) else hi
 
 
 def _case_resultants(comps, factors: Mapping[str, float], section: Section) -> Resultants:

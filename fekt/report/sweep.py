@@ -41,7 +41,7 @@ class SweepFiles:
                     continue  # a line cut short by an interrupt: that point is computed again
                 i = d.get("index")
                 if isinstance(i, int) and 0 <= i < len(points) and _same(d.get("values", {}), points[i]):
-                    done[i] = PointResult(**d)
+                    done[i] = PointResult.from_json(d)
         return done
 
     def append(self, r: PointResult) -> None:
@@ -72,7 +72,18 @@ def _same(a: Mapping[str, float], b: Mapping[str, float]) -> bool:
 
 
 
-def format_sweep(results, names, basis: str, fit=None) -> str:
+def followed_text(feature: str | None, results) -> str:
+    """Which feature the sweep's Kt belongs to, in words."""
+    if feature:
+        return f"Kt of the feature '{feature}' (its largest-magnitude peak) at every point"
+    seen = sorted({r.feature for r in results if r.status == "ok"})
+    if len(seen) == 1:
+        return f"Kt of the leading notch peak at every point: '{seen[0]}' (use --feature to choose another)"
+    return ("Kt of the leading notch peak at each point, which is not the same feature at every point ("
+            + ", ".join(f"'{f}'" for f in seen) + "): use --feature to follow one")
+
+
+def format_sweep(results, names, basis: str, fit=None, feature: str | None = None) -> str:
     key = "kt_net" if basis == "net" else "kt_gross"
     rows = []
     for r in results:
@@ -82,7 +93,8 @@ def format_sweep(results, names, basis: str, fit=None) -> str:
                      num(kt, 5) if kt is not None else "-", ("+-" + num(band, 2)) if band is not None else "-",
                      num(r.chart_kt, 4) + (f" ({r.chart_basis})" if r.chart_basis else "") if r.chart_kt else "-",
                      r.feature or r.message[:70]])
-    lines = table(["#", *names, "status", f"Kt_{basis}", "band", "chart", "feature / message"], rows)
+    lines = [followed_text(feature, results) + ":"]
+    lines += table(["#", *names, "status", f"Kt_{basis}", "band", "chart", "feature / message"], rows)
     ok = sum(r.status == "ok" for r in results)
     lines.append(f"{ok} of {len(results)} points solved; invalid or failed points keep their message in the files.")
     if fit is not None:
@@ -93,20 +105,34 @@ def format_sweep(results, names, basis: str, fit=None) -> str:
 def format_fit(fit) -> str:
     coeffs = ", ".join(f"{k} = {v:.6g}" for k, v in fit.coefficients.items())
     ranges = "; ".join(f"{n} in [{a:.6g}, {b:.6g}]" for n, (a, b) in fit.ranges.items())
-    return (f"Fit ({fit.form}) over {fit.points} points: Kt = {fit.formula}\n  {coeffs}\n  largest residual "
-            f"{fit.max_residual:.3g}, rms {fit.rms_residual:.3g}; valid only for {ranges} (your own chart: do not "
-            "extrapolate)")
+    lines = [f"Fit ({fit.form}) over {fit.points} points: Kt = {fit.formula}", f"  {coeffs}",
+             f"  largest residual {fit.max_residual:.3g}, rms {fit.rms_residual:.3g}; valid only for {ranges} "
+             "(your own chart: do not extrapolate)"]
+    if fit.typical_band is not None and fit.max_residual > 2 * fit.typical_band:
+        lines.append(f"  WARNING: the largest residual is {fit.max_residual / fit.typical_band:.1f} times the typical "
+                     f"FE band ({fit.typical_band:.2g}): this form does not follow the FE values; try another form")
+    if fit.residual_dof < 3:
+        lines.append(f"  WARNING: only {fit.residual_dof} residual degree(s) of freedom ({fit.points} points, "
+                     f"{len(fit.coefficients)} coefficients): the fit passes close to every point by construction; "
+                     "add points before trusting it between them")
+    return "\n".join(lines)
 
 
 def format_target(t) -> str:
-    band = f" +- {t.kt_net_band:.2g}" if t.kt_net_band is not None else ""
+    history = "; ".join(f"{t.name} = {p.value:.6g}: " + (f"Kt_{t.basis} {p.kt:.5g}" if p.kt is not None else p.status)
+                        for p in sorted(t.history, key=lambda p: p.value))
+    if not t.reached:
+        return (f"Kt_{t.basis} = {t.target:g} is not crossed for {t.name} in the bounds by '{t.feature}' "
+                f"({t.stop_reason}). Solves in order of {t.name}: {history}")
+    band = f" +- {t.kt_band:.2g}" if t.kt_band is not None else ""
     vband = f" +- {t.value_band:.3g}" if t.value_band is not None else ""
-    return (f"{t.name} = {t.value:.6g}{vband} gives Kt_{t.basis} = {t.kt_net:.5g}{band} (target {t.target:g}; "
-            f"{t.evaluations} solves; Brent's method on a bracket). The band on {t.name} is the Kt band divided by "
-            "the local slope dKt/d" + t.name + ".")
+    side = {"above": f"{t.name} >= {t.value:.6g}", "below": f"{t.name} <= {t.value:.6g}"}.get(t.keeps_below, "")
+    return (f"{side}{vband} keeps Kt_{t.basis} of '{t.feature}' at or below {t.target:g}; at the bound Kt_{t.basis} = "
+            f"{t.kt:.5g}{band}. {t.evaluations} solves; stopped because {t.stop_reason}. The band on {t.name} is "
+            f"the Kt band divided by the local slope dKt/d{t.name}.\nSolves in order of {t.name}: {history}")
 
 
-def write_sweep_plot(results, names, basis: str, path: str, title: str, fit=None) -> None:
+def write_sweep_plot(results, names, basis: str, path: str, title: str, fit=None, units: str = "") -> None:
     from matplotlib.figure import Figure
 
     key = "kt_net" if basis == "net" else "kt_gross"

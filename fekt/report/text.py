@@ -8,7 +8,7 @@ from __future__ import annotations
 import math
 
 from ..records import Result
-from .words import TWO_GRID_METHOD, family_check_lines, nearest_chart_line
+from .words import TWO_GRID_METHOD, component_chart_lines, family_check_lines, nearest_chart_line
 
 
 def num(v, digits: int = 4) -> str:
@@ -134,9 +134,15 @@ def time_line(t) -> str:
 def chart_lines(r: Result) -> list[str]:
     """The chart cross-check lines: the family check, or the nearest chart per feature."""
     if r.family_check is not None:
-        record = r.peak(r.family_check.peak_rank).chart if r.family_check.peak_rank is not None else None
-        return ["", *family_check_lines(r.family_check, record)]
-    rows = [nearest_chart_line(p.feature, p.kt_net, p.chart) for p in r.peaks if p.chart is not None]
+        peak = r.peak(r.family_check.peak_rank) if r.family_check.peak_rank is not None else None
+        return ["", *family_check_lines(r.family_check, peak.chart if peak else None,
+                                        peak.component_charts if peak else ())]
+    rows = []
+    for p in r.peaks:
+        if p.chart is not None:
+            rows.append(nearest_chart_line(p.feature, p.kt_net, p.chart))
+            rows += [line.replace("  component", "      component", 1) for c in p.component_charts
+                     for line in component_chart_lines(c)]
     if not rows:
         return []
     return ["", "Nearest chart per feature (each notch alone; ignores interaction with other features):", *rows]

@@ -135,12 +135,15 @@ def no_chart_text(n: NoChart) -> str:
     return "no chart: " + NO_CHART_WORDS.get(n.reason, n.reason)
 
 
-def family_check_lines(check: FamilyCheck, record: ChartCheck | None) -> list[str]:
+def family_check_lines(check: FamilyCheck, record: ChartCheck | NoChart | None,
+                       per_component: tuple = ()) -> list[str]:
     lines = [f"Chart cross-check ({check.family}, {check.load or 'combined'}):"]
-    if record is None:
+    if not isinstance(record, ChartCheck):
         n = check.no_chart
         text = NO_CHART_WORDS.get(n.reason) if n else None
         lines.append(f"  no chart: {n.detail or text or n.reason}" if n else "  no chart")
+        for c in per_component:
+            lines += component_chart_lines(c)
         return lines
     mem = " (fit recalled from memory)" if record.from_memory else ""
     lines.append(f"  {record.fit}{mem}: chart Kt_{record.basis} = {record.chart_kt:.4g}, FE "
@@ -153,6 +156,17 @@ def family_check_lines(check: FamilyCheck, record: ChartCheck | None) -> list[st
         lines.append(f"  within coverage ({ratios}); nominal stress {record.nominal}")
     lines.append(f"  source: {record.source}")
     return lines
+
+
+def component_chart_lines(c: ChartCheck | NoChart) -> list[str]:
+    """One load component of a peak against its own chart."""
+    if isinstance(c, NoChart):
+        return [f"  component '{c.component}': {no_chart_text(c)}"]
+    cov = "within coverage" if c.coverage == "inside" else "OUTSIDE CHART COVERAGE: " + "; ".join(c.coverage_notes)
+    diff = "-" if c.difference_pct is None else f"{c.difference_pct:+.2f} %"
+    fe = "-" if c.fe_kt is None else f"{c.fe_kt:.4g}"
+    return [f"  component '{c.component}' ({c.load}): {c.fit}: chart Kt_{c.basis} = {c.chart_kt:.4g}, FE {fe}, "
+            f"difference {diff} (fit band +-{c.band_pct:.0f} %); {cov}"]
 
 
 def nearest_chart_line(feature: str, fe_kt_net: float, record: ChartCheck | NoChart) -> str:

@@ -319,12 +319,18 @@ class Study:
 
 
 def converge(case: Case, *, levels: int = 3, ratio: float = 2.0, nested: bool = False, jobs: int = 1,
-             progress: Callable[[int, Level], None] | None = None) -> Study:
-    """Run a refinement study; level 0 is the case's own mesh."""
+             progress: Callable[[int, Level], None] | None = None, feature: str | None = None) -> Study:
+    """Run a refinement study; level 0 is the case's own mesh. ``feature``: study only that feature's peaks."""
     t0 = time.perf_counter()
     specs = ladder(case.mesh, levels, ratio, nested=nested)
     lv, results = run_case_levels(case, specs, jobs=jobs, progress=progress)
     spots = study_spots(lv, part_scale(results[-1]), local_ladder=not nested)
+    if feature is not None:
+        known = sorted({s.key for s in spots})
+        spots = [s for s in spots if s.key == feature]
+        if not spots:
+            raise InputError(f"the part has no stress peak on a feature named '{feature}'", item="feature",
+                             hint=f"features with peaks: {', '.join(known)}")
     facts = tuple(LevelFacts(i, l.spec.elements_per_radius, l.spec.refine, int(l.elements), int(l.dofs), l.h,
                              l.seconds) for i, l in enumerate(lv))
     return Study(case.name, case.demo, ratio if not nested else 2.0, nested, FORMAL_ORDER, "oberkampf-roy", facts,

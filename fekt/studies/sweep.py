@@ -13,22 +13,41 @@ import itertools
 import os
 import time
 from collections.abc import Callable, Iterable, Sequence
-from dataclasses import asdict, dataclass
+from dataclasses import dataclass
 
 import numpy as np
 
 from ..case.loader import case_from_dict
 from ..errors import FektError, InputError
 from ..kinds import FeatureKind
+from ..records import ChartCheck, to_jsonable
 from ..registry import CATALOGUE
 
-#: columns of the CSV file, in order
+#: columns of the CSV file, in order (after the varied parameters)
 COLUMNS = ("index", "status", "feature", "kt_net", "kt_net_band", "kt_gross", "kt_gross_band", "chart_kt",
            "chart_basis", "peak", "seconds", "message")
 
 
 @dataclass(frozen=True)
+class PeakSummary:
+    """One stress peak of a sweep point, as kept in the sweep's files (every peak of every point)."""
+
+    rank: int
+    feature: str
+    kind: str
+    peak: float
+    kt_net: float | None
+    kt_net_band: float | None
+    kt_gross: float | None
+    kt_gross_band: float | None
+    singular: bool
+
+
+@dataclass(frozen=True)
 class PointResult:
+    """One point of a sweep: its parameter values, its status, the followed feature's Kt (top-level fields)
+    and every peak of the solve (``peaks``)."""
+
     index: int
     values: dict[str, float]
     status: str  # "ok", "invalid" (the input is wrong at this point), "failed" (the solve failed)
@@ -42,9 +61,28 @@ class PointResult:
     chart_basis: str = ""
     peak: float | None = None
     seconds: float = 0.0
+    peaks: tuple[PeakSummary, ...] = ()
 
     def to_json(self) -> dict:
-        return asdict(self)
+        return to_jsonable(self)
+
+    @classmethod
+    def from_json(cls, d: dict) -> "PointResult":
+        fields = dict(d)
+        fields["peaks"] = tuple(PeakSummary(**p) for p in fields.get("peaks", ()))
+        return cls(**fields)
+
+
+def followed_peak(peaks, feature: str | None):
+    """The peak a study follows: the named feature's largest-magnitude peak, or by default the notch peak
+    (any feature but a plain edge, no singular corner) with the largest Kt_net. None when there is none."""
+    finite = [h for h in peaks if h.kt_net is not None]
+    if feature is not None:
+        mine = [h for h in finite if h.feature == feature]
+        return max(mine, key=lambda h: abs(h.peak)) if mine else None
+    spots = [h for h in finite if not h.singular]
+    notch = [h for h in spots if h.feature_kind != FeatureKind.EDGE] or spots
+    return max(notch, key=lambda h: h.kt_net) if notch else None
 
 
 def grid(varies: Sequence[tuple[str, list[float]]]) -> list[dict[str, float]]:
@@ -55,8 +93,11 @@ def grid(varies: Sequence[tuple[str, list[float]]]) -> list[dict[str, float]]:
     return [dict(zip(names, combo)) for combo in itertools.product(*(v for _, v in varies))]
 
 
-def run_point(table: dict, source: str, index: int, values: dict[str, float], estimate: bool = True) -> PointResult:
-    """Solve one sweep point; never raises for problems of the point itself (they are recorded)."""
+def run_point(table: dict, source: str, index: int, values: dict[str, float], estimate: bool = True,
+              feature: str | None = None) -> PointResult:
+    """Solve one sweep point; never raises for problems of the point itself (they are recorded).
+
+    ``feature``: the feature whose Kt the point reports (default: the notch peak with the largest Kt)."""
     from .evaluate import solve_full
 
     t0 = time.perf_counter()
@@ -67,18 +108,24 @@ def run_point(table: dict, source: str, index: int, values: dict[str, float], es
         return PointResult(index, values, "invalid", str(exc), seconds=time.perf_counter() - t0)
     except FektError as exc:
         return PointResult(index, values, "failed", str(exc), seconds=time.perf_counter() - t0)
-    spots = [h for h in r.peaks if h.kt_net is not None and not h.singular]
-    notch = [h for h in spots if h.feature_kind != FeatureKind.EDGE] or spots
-    if not notch:
-        return PointResult(index, values, "failed", "no stress peak with a finite Kt", seconds=time.perf_counter() - t0)
-    top = max(notch, key=lambda h: h.kt_net)
+    summaries = tuple(PeakSummary(h.rank, h.feature, str(h.feature_kind), h.peak, h.kt_net,
+                                  h.band.kt_net if h.band else None, h.kt_gross,
+                                  h.band.kt_gross if h.band else None, h.singular) for h in r.peaks)
+    top = followed_peak(r.peaks, feature)
+    if top is None:
+        what = f"feature '{feature}' has no stress peak with a finite Kt here" if feature else \
+            "no stress peak with a finite Kt"
+        known = sorted({h.feature for h in r.peaks})
+        return PointResult(index, values, "failed", what + (f" (features: {', '.join(known)})" if feature else ""),
+                           seconds=time.perf_counter() - t0, peaks=summaries)
     band_n, band_g = (top.band.kt_net, top.band.kt_gross) if top.band else (None, None)
     chart, basis = None, ""
     if r.family_check is not None and r.family_check.peak_rank is not None:
         check = r.peak(r.family_check.peak_rank).chart
-        chart, basis = check.chart_kt, str(check.basis)
+        if isinstance(check, ChartCheck):
+            chart, basis = check.chart_kt, str(check.basis)
     return PointResult(index, values, "ok", "", top.feature, top.kt_net, band_n, top.kt_gross, band_g, chart, basis,
-                       top.peak, time.perf_counter() - t0)
+                       top.peak, time.perf_counter() - t0, summaries)
 
 
 # --- executors --------------------------------------------------------------------------------------
@@ -117,14 +164,15 @@ def _dask(tasks, submit_args, scheduler):
 
 def run_points(table: dict, source: str, points: Sequence[dict[str, float]], *, estimate: bool = True,
                executor: str = "pool", workers: int | None = None, scheduler=None,
-               skip: Iterable[int] = (), on_result: Callable[[PointResult], None] | None = None) -> list[PointResult]:
+               skip: Iterable[int] = (), on_result: Callable[[PointResult], None] | None = None,
+               feature: str | None = None) -> list[PointResult]:
     """Run the sweep; ``skip`` holds indices already finished (resume). Results come back in index order."""
     skip = set(skip)
     tasks = [(i, p) for i, p in enumerate(points) if i not in skip]
 
     def args(t):
         i, p = t
-        return table, source, i, p, estimate
+        return table, source, i, p, estimate, feature
 
     if executor == "serial" or not tasks:
         stream = _serial(tasks, args)
@@ -157,6 +205,8 @@ class Fit:
     ranges: dict[str, tuple[float, float]]
     points: int
     curve: tuple[tuple[float, ...], tuple[float, ...]] | None = None  # the fitted Kt over the range (1 parameter)
+    residual_dof: int = 0  # points less coefficients
+    typical_band: float | None = None  # the median band of the fitted points (how well the FE knows them)
 
 
 #: points of the fitted curve that plots draw
@@ -175,14 +225,14 @@ def fit_results(results: Sequence[PointResult], names: Sequence[str], form: str,
     X = {n: np.array([r.values[n] for r in ok], dtype=float) for n in names}
     ranges = {n: (float(X[n].min()), float(X[n].max())) for n in names} if ok else {}
     if form.startswith("poly"):
-        deg = int(form.split(":", 1)[1]) if ":" in form else 2
+        deg = _degree(form)
         _need_params(names, 1, form)
         x = X[names[0]]
         _need_points(len(y), deg + 1, form)
         c = np.polyfit(x, y, deg)
         pred = np.polyval(c, x)
         model = lambda xs, c=c: np.polyval(c, xs)  # noqa: E731
-        coeffs = {f"c{deg - k}": float(v) for k, v in enumerate(c)}
+        coeffs = {f"c{k}": float(c[deg - k]) for k in range(deg + 1)}  # c0 first, as the formula reads
         formula = " + ".join(f"c{k}*{names[0]}^{k}" for k in range(deg + 1))
     elif form == "power":
         _need_params(names, 1, form)
@@ -219,8 +269,18 @@ def fit_results(results: Sequence[PointResult], names: Sequence[str], form: str,
     if model is not None and len(names) == 1:
         xs = np.linspace(*ranges[names[0]], CURVE_POINTS)
         curve = (tuple(map(float, xs)), tuple(map(float, model(xs))))
+    bands = [getattr(r, f"{key}_band") for r in ok]
+    bands = [b for b in bands if b is not None]
     return Fit(form, formula, coeffs, float(np.max(np.abs(res))), float(np.sqrt(np.mean(res ** 2))), ranges, len(y),
-               curve)
+               curve, len(y) - len(coeffs), float(np.median(bands)) if bands else None)
+
+
+def _degree(form: str) -> int:
+    text = form.split(":", 1)[1] if ":" in form else "2"
+    if not text.strip().isdigit() or not 0 <= int(text) <= 8:
+        raise InputError(f"'{form}': the degree of poly:N must be a whole number from 0 to 8", item="fit",
+                         hint="e.g. poly:2")
+    return int(text)
 
 
 def _need_params(names, n, form):
@@ -235,78 +295,119 @@ def _need_points(have, need, form):
                          item="fit")
 
 
-# --- goal-seeking -------------------------------------------------------------------------------------
+# --- goal-seeking ---------------------------------------------------------------------------------------
+
+#: evaluations of the search before the scan inside the bounds (bounds included; our own choice)
+SCAN_POINTS = 7
+#: the search stops after this many solves at the most (our own limit)
+MAX_SOLVES = 30
+
+
+@dataclass(frozen=True)
+class SearchPoint:
+    """One solve of a goal-seek: the parameter value, what happened and the Kt found."""
+
+    value: float
+    status: str
+    kt: float | None
+    band: float | None
+    message: str = ""
+
 
 @dataclass(frozen=True)
 class TargetResult:
+    """The bound of a dimension that keeps Kt at or below a target.
+
+    ``value`` is the bound (interpolated between the last two solves that straddle the target);
+    ``keeps_below`` says on which side Kt stays at or below the target: ``"above"`` (values >= the bound)
+    or ``"below"``; ``kt`` and ``kt_band`` are from a solve with its band at the bound; ``value_band`` is
+    that band divided by the local slope. ``reached`` is False when no straddling pair was found (then
+    ``value`` is None and ``history`` says what was seen). ``history`` holds every solve in order."""
+
     name: str
     target: float
-    value: float
-    kt_net: float
-    kt_net_band: float | None
-    value_band: float | None  # uncertainty of the answer from the Kt band and the local slope
-    evaluations: int
-    history: tuple[tuple[float, float], ...]
     basis: str
+    feature: str
+    reached: bool
+    value: float | None
+    keeps_below: str | None
+    kt: float | None
+    kt_band: float | None
+    value_band: float | None
+    evaluations: int
+    history: tuple[SearchPoint, ...]
+    stop_reason: str
 
 
 def goal_seek(table: dict, source: str, name: str, kt_target: float, bounds: tuple[float, float],
-              *, basis: str = "net", xtol: float = 1e-4, progress: Callable[[float, float], None] | None = None
-              ) -> TargetResult:
-    """The parameter value giving the target Kt: bracket on the bounds (scanning inside them when both
-    ends lie on the same side), then Brent's method (scipy.optimize.brentq; Brent 1973)."""
-    from scipy.optimize import brentq
+              *, basis: str = "net", feature: str | None = None,
+              progress: Callable[[SearchPoint], None] | None = None) -> TargetResult:
+    """The bound of parameter ``name`` in ``bounds`` at which Kt (of ``feature``, by default the leading
+    notch peak) crosses ``kt_target``, with the side on which Kt stays at or below it.
 
+    A scan of SCAN_POINTS values across the bounds finds a pair of valid points that straddle the
+    target (points whose geometry is invalid are recorded and passed over, as a sweep does); the
+    Illinois variant of regula falsi (Dowell & Jarratt 1971) then narrows the pair and stops as soon as
+    the two Kt values differ by less than the band of Kt (the two-grid estimate at the scan's point nearest
+    the target): closer solves only follow mesh noise. A last solve with its band at the bound gives Kt
+    there."""
     lo, hi = sorted(bounds)
-    span = hi - lo
-    history: list[tuple[float, float]] = []
-    cache: dict[float, float] = {}
+    history: list[SearchPoint] = []
+    key = "kt_net" if basis == "net" else "kt_gross"
+    followed = feature or ""
 
-    def kt_at(x: float) -> float:
-        x = float(x)
-        if x in cache:  # brentq evaluates the bracket ends again
-            return cache[x]
-        r = run_point(table, source, len(history), {name: x}, estimate=False)
-        if r.status != "ok":
-            raise InputError(f"at {name} = {x:.6g} the case cannot be solved: {r.message}", item=name,
-                             hint="narrow the bounds to values that give a valid part")
-        v = r.kt_net if basis == "net" else r.kt_gross
-        history.append((x, v))
+    def solve_at(x: float, with_band: bool = False) -> SearchPoint:
+        nonlocal followed
+        r = run_point(table, source, len(history), {name: x}, estimate=with_band, feature=feature)
+        if r.status == "ok":
+            followed = followed or r.feature
+            band = r.kt_net_band if basis == "net" else r.kt_gross_band
+            sp = SearchPoint(float(x), "ok", getattr(r, key), band)
+        else:
+            sp = SearchPoint(float(x), r.status, None, None, r.message)
+        history.append(sp)
         if progress:
-            progress(x, v)
-        cache[x] = v - kt_target
-        return cache[x]
+            progress(sp)
+        return sp
 
-    f_lo, f_hi = kt_at(lo), kt_at(hi)
-    if f_lo * f_hi > 0:
-        xs = np.linspace(lo, hi, 7)[1:-1]
-        bracket = None
-        prev_x, prev_f = lo, f_lo
-        for x in xs:
-            f = kt_at(float(x))
-            if prev_f * f <= 0:
-                bracket = (prev_x, float(x))
-                break
-            prev_x, prev_f = float(x), f
-        if bracket is None:
-            got = ", ".join(f"{v:.4g}" for _, v in history)
-            raise InputError(f"Kt = {kt_target:g} is not reached for {name} in [{lo:g}, {hi:g}] (Kt found: {got})",
-                             item="kt", hint="widen --bounds or choose a reachable Kt")
-        lo, hi = bracket
-    x_star = brentq(kt_at, lo, hi, xtol=xtol * max(abs(lo), abs(hi), 1e-12), rtol=1e-10)
-    final = run_point(table, source, len(history), {name: x_star}, estimate=True)
-    if final.status != "ok":
-        raise InputError(f"at the answer {name} = {x_star:.6g} the case cannot be solved: {final.message}", item=name)
-    kt = final.kt_net if basis == "net" else final.kt_gross
-    band = final.kt_net_band if basis == "net" else final.kt_gross_band
-    # slope from the nearest evaluations at least 5 % of the search range away on each side: closer
-    # ones differ by mesh-to-mesh scatter more than by the trend
-    left = [p for p in history if p[0] <= x_star - 0.05 * span]
-    right = [p for p in history if p[0] >= x_star + 0.05 * span]
-    slope = None
-    if left and right:
-        a = max(left, key=lambda p: p[0])
-        b = min(right, key=lambda p: p[0])
-        slope = (b[1] - a[1]) / (b[0] - a[0])
-    xband = abs(band / slope) if (band is not None and slope) else None
-    return TargetResult(name, kt_target, float(x_star), kt, band, xband, len(history) + 1, tuple(history), basis)
+    scan = [solve_at(float(x)) for x in np.linspace(lo, hi, SCAN_POINTS)]
+    valid = [p for p in scan if p.status == "ok" and p.kt is not None]
+    pair = next(((a, b) for a, b in zip(valid[:-1], valid[1:]) if (a.kt - kt_target) * (b.kt - kt_target) <= 0),
+                None)
+    if pair is None:
+        return TargetResult(name, kt_target, basis, followed, False, None, None, None, None, None, len(history),
+                            tuple(history), "no two valid points straddle the target")
+    a, b = pair
+    near = min(pair, key=lambda p: abs(p.kt - kt_target))
+    noise = solve_at(near.value, with_band=True).band or 0.0
+    stop = "the two Kt values straddling the target agree within the band"
+    fa, fb = a.kt - kt_target, b.kt - kt_target
+    while abs(a.kt - b.kt) > noise:
+        if len(history) >= MAX_SOLVES:
+            stop = f"stopped after {MAX_SOLVES} solves"
+            break
+        x = (a.value * fb - b.value * fa) / (fb - fa) if fb != fa else 0.5 * (a.value + b.value)
+        if not (min(a.value, b.value) < x < max(a.value, b.value)):
+            x = 0.5 * (a.value + b.value)
+        c = solve_at(x)
+        if c.status != "ok" or c.kt is None:
+            stop = f"a point inside the bracket is invalid ({c.message}); the bracket is kept"
+            break
+        fc = c.kt - kt_target
+        if fc * fb < 0:
+            a, fa = b, fb  # the new point and the old b straddle the target
+        else:
+            fa = 0.5 * fa  # Illinois: the end kept twice counts half
+        b, fb = c, fc
+        if abs(fc) <= 0.25 * noise:
+            stop = "the last solve is within a quarter of the band of the target"
+            break
+    x_star = a.value + (kt_target - a.kt) * (b.value - a.value) / (b.kt - a.kt) if b.kt != a.kt else a.value
+    final = solve_at(x_star, with_band=True)
+    slope = (b.kt - a.kt) / (b.value - a.value) if b.value != a.value else None
+    value_band = abs(final.band / slope) if (final.band is not None and slope) else None
+    keeps = None
+    if slope:
+        keeps = "below" if slope > 0 else "above"  # Kt rises with the value: smaller values keep it lower
+    return TargetResult(name, kt_target, basis, followed, True, float(x_star), keeps, final.kt, final.band,
+                        value_band, len(history), tuple(history), stop)
