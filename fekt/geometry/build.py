@@ -282,6 +282,12 @@ def _arc_name(v: Vertex, nxt: Vertex, origin: str, i: int) -> str:
     return f"{origin} arc {i}"
 
 
+def _numbered(vertices) -> tuple[Vertex, ...]:
+    """Vertices carry their position in the chain as written (the loader sets it; parts built in Python
+    get it here), so that unnamed features are named by vertex number."""
+    return tuple(v if v.index is not None else replace(v, index=i) for i, v in enumerate(vertices))
+
+
 def _ccw_chain(vertices: tuple[Vertex, ...]) -> list[Vertex]:
     """The chain counter-clockwise, starting at its lowest-leftmost vertex: the same part written in either
     direction, or from another starting vertex, becomes the same chain (and so the same mesh)."""
@@ -341,7 +347,7 @@ def cutout_loop(c: CutoutSpec, k: int) -> Loop:
         if len(c.vertices) < 3:
             raise GeometryError(f"a chain cut-out needs at least 3 vertices, got {len(c.vertices)}",
                                 item=f"{item}.vertices")
-        segs = chain_segments(_ccw_chain(c.vertices), item=f"{item}.vertices", origin=origin)
+        segs = chain_segments(_ccw_chain(_numbered(c.vertices)), item=f"{item}.vertices", origin=origin)
     else:
         raise GeometryError(f"unknown shape '{c.shape}'", item=f"{item}.shape",
                             hint="one of circle, ellipse, slot, rounded_rectangle, chain")
@@ -408,7 +414,7 @@ def build_part(spec: PartSpec) -> PartGeometry:
     P = np.array([[v.x, v.y] for v in verts])
     if np.linalg.matrix_rank(P[1:] - P[0], tol=1e-12 * (1 + np.abs(P).max())) < 2:
         raise GeometryError("the outline encloses no area (all vertices lie on one line)", item="part.outline")
-    verts = _ccw_chain(tuple(verts))
+    verts = _ccw_chain(_numbered(verts))
     plain = None
     if spec.notches:
         plain = Loop(tuple(chain_segments(verts, item="part.outline", origin="outline")), LoopKind.OUTLINE, "outline")
