@@ -7,6 +7,7 @@ import os
 import sys
 
 from ..errors import InputError
+from . import review_out
 
 
 def parse_vary(spec: str) -> tuple[str, list[float]]:
@@ -52,6 +53,7 @@ def add_parser(sub) -> None:
     p.add_argument("--fit", metavar="FORM", help="fit the results: poly:N, power, or cubic-sqrt (two parameters: "
                    "cubic in the first, coefficients linear in sqrt(second) and second)")
     p.add_argument("--json", action="store_true", help="print the results as JSON")
+    review_out.add_options(p, html=True)
     p.set_defaults(run=run_sweep)
 
     t = sub.add_parser("target", help="find the parameter value that gives a target Kt")
@@ -62,22 +64,15 @@ def add_parser(sub) -> None:
                    "case's value)")
     t.add_argument("--basis", choices=("net", "gross"), default="net", help="Kt on the net or gross section")
     t.add_argument("--json", action="store_true", help="print the answer as JSON")
+    review_out.add_options(t, html=False)
     t.set_defaults(run=run_target)
-
-
-def _progress(total: int, desc: str, quiet: bool):
-    if quiet or not sys.stderr.isatty():
-        return None
-    from tqdm import tqdm
-
-    return tqdm(total=total, desc=desc, unit="point", file=sys.stderr)
 
 
 def run_sweep(args) -> int:
     from ..api import case_from_dict, read_case_table
     from ..records import SWEEP_SCHEMA, to_jsonable
     from ..report.files import write_json, write_text
-    from ..report.sweep import SweepFiles, format_sweep, write_sweep_plot
+    from ..report.sweep import SweepFiles, format_sweep, point_line, write_sweep_plot
     from ..studies.sweep import fit_results, grid, run_points
     from .main import UsageError
 
@@ -87,46 +82,50 @@ def run_sweep(args) -> int:
     varies = [parse_vary(v) for v in args.vary]
     names = [n for n, _ in varies]
     # check the names and the unvaried case once, before any work
-    case_from_dict(table, args.case, overrides={n: v[0] for n, v in varies})
+    case = case_from_dict(table, args.case, overrides={n: v[0] for n, v in varies})
+    units = review_out.output_units(args, case.units)
+    shown = review_out.points_shown(case, units)
     points = grid(varies)
     out = args.out or os.path.splitext(args.case)[0] + "-sweep"
     if os.path.exists(out) and os.listdir(out) and not (args.resume or args.force):
         raise UsageError(f"output folder '{out}' already exists and is not empty",
                          hint="pass --resume to finish that sweep, --force to start over, or choose another --out")
     os.makedirs(out, exist_ok=True)
-    files = SweepFiles(out, names)
+    files = SweepFiles(out, names, parameters=[n for n, _ in case.parameters], shown=shown,
+                       stress_unit=units.stress if units else case.units.stress,
+                       case_units=f"{case.units.length}, {case.units.force}")
     if args.force and os.path.exists(files.jsonl):
         os.remove(files.jsonl)
     done = files.finished(points) if args.resume else {}
     executor = "dask" if args.scheduler else args.executor
-    bar = _progress(len(points) - len(done), "sweep", args.json)
+    progress = review_out.Progress("sweep", total=len(points) - len(done))
     results = list(done.values())
 
     def on_result(r):
         files.append(r)
         results.append(r)
-        if bar is not None:
-            bar.update(1)
+        progress.step(point_line(r, names, args.basis))
 
     try:
         run_points(table, args.case, points, estimate=not args.no_estimate, executor=executor,
                    workers=args.workers, scheduler=args.scheduler, skip=done.keys(), on_result=on_result)
     finally:
-        if bar is not None:
-            bar.close()
+        progress.close()
         files.write_csv(results)
     results.sort(key=lambda r: r.index)
     fit = fit_results(results, names, args.fit, args.basis) if args.fit else None
     text = format_sweep(results, names, args.basis, fit)
     data = {"schema": SWEEP_SCHEMA, "case": args.case, "varied": names, "basis": args.basis,
-            "points": [r.to_json() for r in results], "resumed_points": len(done), "fit": to_jsonable(fit)}
+            "units": {"peak": files.stress_unit, "parameters": files.case_units},
+            "points": [r.to_json() for r in shown(results)], "resumed_points": len(done), "fit": to_jsonable(fit)}
     write_json(os.path.join(out, "sweep.json"), data)
     write_text(os.path.join(out, "report.txt"), text + "\n")
     write_sweep_plot(results, names, args.basis, os.path.join(out, "sweep.png"),
                      f"{os.path.basename(args.case)}: Kt over {', '.join(names)}", fit)
+    html = review_out.sweep_html(args, out, results, names, fit, case)
     print(json.dumps(data, indent=2) if args.json else text)
     if not args.json:
-        print(f"wrote {out}/points.jsonl, sweep.csv, sweep.json, report.txt, sweep.png"
+        print(f"wrote {out}/points.jsonl, sweep.csv, sweep.json, report.txt, sweep.png" + (f", {html}" if html else "")
               + (f" ({len(done)} points reused)" if done else ""), file=sys.stderr)
     return 0
 
@@ -134,7 +133,7 @@ def run_sweep(args) -> int:
 def run_target(args) -> int:
     from ..api import case_from_dict, read_case_table
     from ..records import TARGET_SCHEMA, to_jsonable
-    from ..report.sweep import format_target
+    from ..report.sweep import format_target, target_line
     from ..studies.sweep import goal_seek
     from .main import UsageError
 
@@ -155,12 +154,15 @@ def run_target(args) -> int:
         lo, hi = 0.5 * params[args.vary], 1.5 * params[args.vary]
     if lo == hi:
         raise UsageError("--bounds must span a range")
-    quiet = args.json or not sys.stderr.isatty()
-
-    def progress(x, kt):
-        if not quiet:
-            print(f"  {args.vary} = {x:.6g}: Kt_{args.basis} = {kt:.5g}", file=sys.stderr)
-
-    t = goal_seek(table, args.case, args.vary, args.kt, (lo, hi), basis=args.basis, progress=progress)
-    print(json.dumps({"schema": TARGET_SCHEMA, **to_jsonable(t)}, indent=2) if args.json else format_target(t))
+    units = review_out.output_units(args, case.units)
+    bar = review_out.Progress("target", unit="solve")
+    try:
+        t = goal_seek(table, args.case, args.vary, args.kt, (lo, hi), basis=args.basis,
+                      progress=lambda x, kt: bar.step(target_line(args.vary, x, args.basis, kt)))
+    finally:
+        bar.close()
+    t = review_out.points_shown(case, units)(t)
+    stress = units.stress if units else case.units.stress
+    print(json.dumps({"schema": TARGET_SCHEMA, **to_jsonable(t), "units": {"peak": stress}}, indent=2) if args.json
+          else format_target(t, stress))
     return 0

@@ -13,10 +13,11 @@ import itertools
 import os
 import time
 from collections.abc import Callable, Iterable, Sequence
-from dataclasses import asdict, dataclass
+from dataclasses import asdict, dataclass, field
 
 import numpy as np
 
+from ..case.expr import resolve_parameters
 from ..case.loader import case_from_dict
 from ..errors import FektError, InputError
 from ..kinds import FeatureKind
@@ -42,9 +43,24 @@ class PointResult:
     chart_basis: str = ""
     peak: float | None = None
     seconds: float = 0.0
+    #: every parameter of the case at this point (varied and not varied, expressions evaluated); empty
+    #: when the parameters themselves cannot be evaluated there
+    parameters: dict[str, float] = field(default_factory=dict)
 
     def to_json(self) -> dict:
         return asdict(self)
+
+
+def point_parameters(table: dict, values: dict[str, float]) -> dict[str, float]:
+    """Every parameter of the case file's table with ``values`` overriding the named ones ({} when the
+    parameters cannot be evaluated: the point's own message then says why)."""
+    raw = table.get("parameters", {})
+    if not isinstance(raw, dict):
+        return {}
+    try:
+        return resolve_parameters({**raw, **values})
+    except InputError:
+        return {}
 
 
 def grid(varies: Sequence[tuple[str, list[float]]]) -> list[dict[str, float]]:
@@ -60,17 +76,19 @@ def run_point(table: dict, source: str, index: int, values: dict[str, float], es
     from .evaluate import solve_full
 
     t0 = time.perf_counter()
+    params = point_parameters(table, values)
     try:
         case = case_from_dict(table, source, overrides=values, catalogue=CATALOGUE)
         r = solve_full(case, estimate=estimate).result
     except InputError as exc:
-        return PointResult(index, values, "invalid", str(exc), seconds=time.perf_counter() - t0)
+        return PointResult(index, values, "invalid", str(exc), seconds=time.perf_counter() - t0, parameters=params)
     except FektError as exc:
-        return PointResult(index, values, "failed", str(exc), seconds=time.perf_counter() - t0)
+        return PointResult(index, values, "failed", str(exc), seconds=time.perf_counter() - t0, parameters=params)
     spots = [h for h in r.peaks if h.kt_net is not None and not h.singular]
     notch = [h for h in spots if h.feature_kind != FeatureKind.EDGE] or spots
     if not notch:
-        return PointResult(index, values, "failed", "no stress peak with a finite Kt", seconds=time.perf_counter() - t0)
+        return PointResult(index, values, "failed", "no stress peak with a finite Kt", seconds=time.perf_counter() - t0,
+                           parameters=params)
     top = max(notch, key=lambda h: h.kt_net)
     band_n, band_g = (top.band.kt_net, top.band.kt_gross) if top.band else (None, None)
     chart, basis = None, ""
@@ -78,7 +96,7 @@ def run_point(table: dict, source: str, index: int, values: dict[str, float], es
         check = r.peak(r.family_check.peak_rank).chart
         chart, basis = check.chart_kt, str(check.basis)
     return PointResult(index, values, "ok", "", top.feature, top.kt_net, band_n, top.kt_gross, band_g, chart, basis,
-                       top.peak, time.perf_counter() - t0)
+                       top.peak, time.perf_counter() - t0, dict(case.parameters))
 
 
 # --- executors --------------------------------------------------------------------------------------
@@ -248,6 +266,7 @@ class TargetResult:
     evaluations: int
     history: tuple[tuple[float, float], ...]
     basis: str
+    peak: float | None = None  # the peak stress at the answer (the case's stress unit)
 
 
 def goal_seek(table: dict, source: str, name: str, kt_target: float, bounds: tuple[float, float],
@@ -309,4 +328,5 @@ def goal_seek(table: dict, source: str, name: str, kt_target: float, bounds: tup
         b = min(right, key=lambda p: p[0])
         slope = (b[1] - a[1]) / (b[0] - a[0])
     xband = abs(band / slope) if (band is not None and slope) else None
-    return TargetResult(name, kt_target, float(x_star), kt, band, xband, len(history) + 1, tuple(history), basis)
+    return TargetResult(name, kt_target, float(x_star), kt, band, xband, len(history) + 1, tuple(history), basis,
+                        final.peak)
