@@ -54,4 +54,5 @@ BAD_CASES = [
     ("load on an edge that does not exist", mutate("ends = [\"left\", \"right\"]", "ends = [\"left\", \"rigth\"]"), "rigth"),
     ("loaded ends not parallel", mutate("ends = [\"left\", \"right\"]", "ends = [\"left\", \"top\"]"), "not parallel"),
     ("unknown unit", "[units]\nlength = \"furlong\"\n" + GOOD, "furlong"),
+    ("unknown output unit", "[units]\noutput = \"bar,mm\"\n" + GOOD, "units.output: unknown unit 'bar'"),
 ]

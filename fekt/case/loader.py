@@ -21,6 +21,7 @@ from typing import TypeVar
 from fekt.case import fields as F
 from fekt.case.expr import resolve_parameters
 from fekt.case.fields import Catalogue, LoadContext
+from fekt.case.output_units import OutputUnits, parse_output_units
 from fekt.case.schema import (
     FORCE_UNITS,
     LENGTH_UNITS,
@@ -34,7 +35,7 @@ from fekt.case.schema import (
     Vertex,
     chain_signed_area,
 )
-from fekt.errors import CaseError
+from fekt.errors import CaseError, InputError
 
 __all__ = ["SHAPES", "case_from_dict", "load_case", "parse_case", "read_case_table"]
 
@@ -46,7 +47,7 @@ _TOP_KEYS = ("case", "units", "parameters", "part", "material", "load", "mesh")
 _CASE_KEYS = ("name", "description", "demo", "measure")
 #: the boundary stresses peaks can be found by (values of fekt.kinds.Measure)
 MEASURES = ("tangential", "max_principal", "min_principal", "von_mises")
-_UNITS_KEYS = ("length", "force")
+_UNITS_KEYS = ("length", "force", "output")
 _PART_KEYS = ("model", "thickness", "outline", "cutouts", "notches", "family", "dimensions", "dxf", "dxf_units",
               "dxf_tolerance")
 _OUTLINE_VERTEX_KEYS = ("x", "y", "edge", "fillet", "arc", "name")
@@ -174,7 +175,19 @@ def _units(raw: object) -> Units:
     F.check_keys(table, _UNITS_KEYS, "units")
     length = F.choice(table.get("length", "mm"), LENGTH_UNITS, "units.length")
     force = F.choice(table.get("force", "N"), FORCE_UNITS, "units.force")
-    return Units(length=length, force=force)
+    output = _output_units(table["output"], length) if "output" in table else ""
+    return Units(length=length, force=force, output=output)
+
+
+def _output_units(raw: object, length: str) -> str:
+    """``[units] output``: checked here (so a bad unit is reported with the file's other mistakes) and
+    kept as written; the command line resolves a missing item from the case's own units."""
+    text = F.text(raw, "units.output").strip()
+    try:
+        parse_output_units(text, OutputUnits(length=length), item="units.output")
+    except InputError as exc:
+        raise CaseError(exc.message, item="units.output", hint=exc.hint) from None
+    return text
 
 
 # --- [part] --------------------------------------------------------------------------------------------

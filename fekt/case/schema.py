@@ -31,8 +31,13 @@ FORCE_UNITS = ("N", "kN", "MN", "lbf", "kip")
 
 @dataclass(frozen=True)
 class Units:
+    """The case's length and force units; ``output`` optionally names the units reports show
+    (``"ksi,in"``, syntax of :mod:`fekt.case.output_units`; "" = the case's own). ``output`` changes no
+    computed number, so it is left out of the case's repr and hence out of its hash."""
+
     length: str = "mm"
     force: str = "N"
+    output: str = field(default="", repr=False)
 
     @property
     def stress(self) -> str:

@@ -5,6 +5,8 @@ from __future__ import annotations
 import json
 import sys
 
+from . import review_out
+
 
 def add_parser(sub) -> None:
     p = sub.add_parser("converge", help="refine the mesh systematically and report how each Kt converges")
@@ -19,6 +21,7 @@ def add_parser(sub) -> None:
     p.add_argument("--json", action="store_true", help="print the study as JSON")
     p.add_argument("--out", metavar="DIR", help="write study.json, study.csv, report.txt and convergence.png")
     p.add_argument("--force", action="store_true", help="replace DIR if it already exists")
+    review_out.add_options(p, html=True)
     p.set_defaults(run=run)
 
 
@@ -32,9 +35,11 @@ def run(args) -> int:
 
     if args.jobs < 1:
         raise UsageError(f"--jobs {args.jobs} must be at least 1")
+    review_out.check(args)
     if args.out:
         check_out_dir(args.out, args.force)
     case = load(args)
+    units = review_out.output_units(args, case.units)
     show = not args.json and sys.stderr.isatty()
     bar = None
     if show:
@@ -54,11 +59,14 @@ def run(args) -> int:
     finally:
         if bar is not None:
             bar.close()
+    study = review_out.shown_study(study, case, units)
     text = format_study(study)
     print(json.dumps(study.to_dict(), indent=2, allow_nan=False) if args.json else text)
     if args.out:
+        length = units.length if units else case.units.length
         write_out_dir(args.out, {"study.json": lambda p: write_json(p, study.to_dict()),
-                                 "study.csv": lambda p: write_text(p, study_csv(study)),
+                                 "study.csv": lambda p: write_text(p, study_csv(study, length)),
                                  "report.txt": lambda p: write_text(p, text + "\n"),
-                                 "convergence.png": lambda p: write_study_plot(study, p)})
+                                 "convergence.png": lambda p: write_study_plot(study, p),
+                                 **review_out.study_files(args, study, case, units)})
     return 0

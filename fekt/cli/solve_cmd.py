@@ -8,16 +8,20 @@ import os
 import sys
 import time
 
+from . import review_out
+
 
 def add_parser(sub) -> None:
     p = sub.add_parser("solve", help="solve one case file and report every stress peak with its Kt")
     p.add_argument("case", help="case file (TOML)")
     p.add_argument("--json", action="store_true", help="print the full result as JSON instead of the table")
-    p.add_argument("--out", metavar="DIR", help="write result.json, report.txt and stress.png into DIR")
+    p.add_argument("--out", metavar="DIR", help="write result.json, report.txt and stress.png into DIR (and "
+                   "report.html, field.vtu with --html, --vtu)")
     p.add_argument("--force", action="store_true", help="replace DIR if it already exists")
     p.add_argument("--elements-per-radius", type=float, help="override the case's mesh.elements_per_radius")
     p.add_argument("--no-estimate", action="store_true",
                    help="skip the second, coarser mesh that gives each Kt its uncertainty band")
+    review_out.add_options(p, html=True, vtu=True)
     p.set_defaults(run=run)
 
 
@@ -45,23 +49,28 @@ def run(args) -> int:
     from ..report.text import format_result
     from .output import check_out_dir, write_out_dir
 
+    review_out.check(args)
     if args.out:
         check_out_dir(args.out, args.force)
     case = load(args)
+    units = review_out.output_units(args, case.units)
     solved = solve_full(case, estimate=not args.no_estimate)
     from .main import STARTED
 
-    result = dataclasses.replace(solved.result, timings=dataclasses.replace(
+    timed = dataclasses.replace(solved.result, timings=dataclasses.replace(
         solved.result.timings, wall_s=time.perf_counter() - STARTED))
-    solved = dataclasses.replace(solved, result=result)
+    solved = dataclasses.replace(solved, result=timed)
+    result = review_out.shown_result(solved.result, units)
     text = format_result(result)
     print(json.dumps(result.to_dict(), indent=2) if args.json else text)
     if args.out:
         from ..report.plots import write_figure
 
-        write_out_dir(args.out, {"result.json": lambda p: write_json(p, result.to_dict()),
-                                 "report.txt": lambda p: write_text(p, text + "\n"),
-                                 "stress.png": lambda p: write_figure(solved, p)})
+        files = {"result.json": lambda p: write_json(p, result.to_dict()),
+                 "report.txt": lambda p: write_text(p, text + "\n"),
+                 "stress.png": lambda p: write_figure(solved, p),
+                 **review_out.solve_files(args, solved, result, units)}
+        write_out_dir(args.out, files)
         if not args.json:
-            print(f"wrote {args.out}/result.json, report.txt, stress.png", file=sys.stderr)
+            print(f"wrote {args.out}/{', '.join(files)}", file=sys.stderr)
     return 0

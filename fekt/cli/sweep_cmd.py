@@ -7,6 +7,7 @@ import os
 import sys
 
 from ..errors import InputError
+from . import review_out
 
 
 def parse_vary(spec: str) -> tuple[str, list[float]]:
@@ -54,6 +55,7 @@ def add_parser(sub) -> None:
     p.add_argument("--feature", metavar="NAME", help="the feature whose Kt the sweep reports and fits (default: the "
                    "leading notch peak at each point); every peak of every point is kept in the files anyway")
     p.add_argument("--json", action="store_true", help="print the results as JSON")
+    review_out.add_options(p, html=True)
     p.set_defaults(run=run_sweep)
 
     t = sub.add_parser("target", help="find the parameter value that gives a target Kt")
@@ -67,22 +69,15 @@ def add_parser(sub) -> None:
     t.add_argument("--out", metavar="DIR", help="write the search (target.json, report.txt) into DIR")
     t.add_argument("--force", action="store_true", help="replace DIR if it already exists")
     t.add_argument("--json", action="store_true", help="print the answer as JSON")
+    review_out.add_options(t, html=False)
     t.set_defaults(run=run_target)
-
-
-def _progress(total: int, desc: str, quiet: bool):
-    if quiet or not sys.stderr.isatty():
-        return None
-    from tqdm import tqdm
-
-    return tqdm(total=total, desc=desc, unit="point", file=sys.stderr)
 
 
 def run_sweep(args) -> int:
     from ..api import case_from_dict, read_case_table
     from ..records import SWEEP_SCHEMA, to_jsonable
     from ..report.files import write_json, write_text
-    from ..report.sweep import SweepFiles, format_sweep, write_sweep_plot
+    from ..report.sweep import SweepFiles, format_sweep, point_line, write_sweep_plot
     from ..studies.sweep import fit_results, grid, run_points
     from .main import UsageError
 
@@ -92,50 +87,53 @@ def run_sweep(args) -> int:
     varies = [parse_vary(v) for v in args.vary]
     names = [n for n, _ in varies]
     # check the names and the unvaried case once, before any work
-    case_from_dict(table, args.case, overrides={n: v[0] for n, v in varies})
+    case = case_from_dict(table, args.case, overrides={n: v[0] for n, v in varies})
+    units = review_out.output_units(args, case.units)
+    shown = review_out.points_shown(case, units)
     points = grid(varies)
     out = args.out or os.path.splitext(args.case)[0] + "-sweep"
     if os.path.exists(out) and os.listdir(out) and not (args.resume or args.force):
         raise UsageError(f"output folder '{out}' already exists and is not empty",
                          hint="pass --resume to finish that sweep, --force to start over, or choose another --out")
     os.makedirs(out, exist_ok=True)
-    files = SweepFiles(out, names)
+    files = SweepFiles(out, names, parameters=[n for n, _ in case.parameters], shown=shown,
+                       stress_unit=units.stress if units else case.units.stress,
+                       case_units=f"{case.units.length}, {case.units.force}")
     if args.force and os.path.exists(files.jsonl):
         os.remove(files.jsonl)
     done = files.finished(points) if args.resume else {}
     executor = "dask" if args.scheduler else args.executor
-    bar = _progress(len(points) - len(done), "sweep", args.json)
+    progress = review_out.Progress("sweep", total=len(points) - len(done))
     results = list(done.values())
 
     def on_result(r):
         files.append(r)
         results.append(r)
-        if bar is not None:
-            bar.update(1)
+        progress.step(point_line(r, names, args.basis))
 
     try:
         run_points(table, args.case, points, estimate=not args.no_estimate, executor=executor,
                    workers=args.workers, scheduler=args.scheduler, skip=done.keys(), on_result=on_result,
                    feature=args.feature)
     finally:
-        if bar is not None:
-            bar.close()
+        progress.close()
         files.write_csv(results)
     results.sort(key=lambda r: r.index)
     fit = fit_results(results, names, args.fit, args.basis) if args.fit else None
     text = format_sweep(results, names, args.basis, fit, args.feature)
     data = {"schema": SWEEP_SCHEMA, "case": args.case, "varied": names, "basis": args.basis,
-            "feature": args.feature,
-            "points": [r.to_json() for r in results], "resumed_points": len(done), "fit": to_jsonable(fit)}
+            "feature": args.feature, "units": {"peak": files.stress_unit, "parameters": files.case_units},
+            "points": [r.to_json() for r in shown(results)], "resumed_points": len(done), "fit": to_jsonable(fit)}
     write_json(os.path.join(out, "sweep.json"), data)
     write_text(os.path.join(out, "report.txt"), text + "\n")
     followed = args.feature or ", ".join(sorted({r.feature for r in results if r.status == "ok"})) or "-"
     write_sweep_plot(results, names, args.basis, os.path.join(out, "sweep.png"),
                      f"{os.path.basename(args.case)}: Kt_{args.basis} of {followed} over {', '.join(names)} "
                      "(your own FE chart)", fit)
+    html = review_out.sweep_html(args, out, results, names, fit, case)
     print(json.dumps(data, indent=2) if args.json else text)
     if not args.json:
-        print(f"wrote {out}/points.jsonl, sweep.csv, sweep.json, report.txt, sweep.png"
+        print(f"wrote {out}/points.jsonl, sweep.csv, sweep.json, report.txt, sweep.png" + (f", {html}" if html else "")
               + (f" ({len(done)} points reused)" if done else ""), file=sys.stderr)
     return 0
 
@@ -143,7 +141,7 @@ def run_sweep(args) -> int:
 def run_target(args) -> int:
     from ..api import case_from_dict, read_case_table
     from ..records import TARGET_SCHEMA, to_jsonable
-    from ..report.sweep import format_target
+    from ..report.sweep import format_target, target_line
     from ..studies.sweep import goal_seek
     from .main import UsageError
 
@@ -168,17 +166,18 @@ def run_target(args) -> int:
         from .output import check_out_dir
 
         check_out_dir(args.out, args.force)
-
-    def progress(p):
-        # one line per solve, on a terminal or in a log (a search of a dozen solves is not silent)
-        if not args.json:
-            what = f"Kt_{args.basis} = {p.kt:.5g}" if p.kt is not None else f"{p.status}: {p.message[:80]}"
-            print(f"  {args.vary} = {p.value:.6g}: {what}", file=sys.stderr, flush=True)
-
-    t = goal_seek(table, args.case, args.vary, args.kt, (lo, hi), basis=args.basis, feature=args.feature,
-                  progress=progress)
-    data = {"schema": TARGET_SCHEMA, "case": args.case, **to_jsonable(t)}
-    text = format_target(t)
+    units = review_out.output_units(args, case.units)
+    bar = review_out.Progress("target", unit="solve")
+    try:
+        t = goal_seek(table, args.case, args.vary, args.kt, (lo, hi), basis=args.basis, feature=args.feature,
+                      progress=(lambda p: bar.step(target_line(args.vary, p, args.basis))) if bar else None)
+    finally:
+        if bar is not None:
+            bar.close()
+    t = review_out.points_shown(case, units)(t)
+    stress = units.stress if units else case.units.stress
+    data = {"schema": TARGET_SCHEMA, "case": args.case, **to_jsonable(t), "units": {"peak": stress}}
+    text = format_target(t, stress)
     print(json.dumps(data, indent=2) if args.json else text)
     if args.out:
         from ..report.files import write_json, write_text

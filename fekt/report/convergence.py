@@ -48,11 +48,13 @@ def format_study(study) -> str:
     return "\n".join(lines)
 
 
-def study_csv(study) -> str:
+def study_csv(study, length_unit: str = "case units") -> str:
+    """One row per peak and mesh level; every header names its unit (``[-]`` for ratios and counts)."""
     buf = io.StringIO()
     w = csv.writer(buf)
-    w.writerow(["rank", "feature", "x", "y", "level", "elements_per_radius", "refine", "dofs", "kt_net",
-                "verdict", "observed_order", "kt_net_extrapolated", "kt_net_band"])
+    w.writerow(["rank", "feature", f"x [{length_unit}]", f"y [{length_unit}]", "level", "elements_per_radius [-]",
+                "refine [-]", "dofs [-]", "kt_net [-]", "verdict", "observed_order [-]", "kt_net_extrapolated [-]",
+                "kt_net_band [-]"])
     n = len(study.levels)
     for s in study.spots:
         for j, v in enumerate(s.values):  # fine -> coarse

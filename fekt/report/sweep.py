@@ -17,13 +17,32 @@ from .text import num, table
 
 class SweepFiles:
     """``points.jsonl`` (one JSON object per finished point, appended and flushed as it finishes) and
-    ``sweep.csv`` (rewritten atomically from it); the JSONL is what ``--resume`` reads."""
+    ``sweep.csv`` (rewritten atomically from it); the JSONL is what ``--resume`` reads.
 
-    def __init__(self, folder: str, names: Sequence[str]):
+    The CSV names a unit in every header: ``[-]`` for Kt values and bands, the stress unit of the peak
+    stress, ``[s]`` for times, and ``[case: mm, N]`` for parameters (the case file's numbers, whose
+    meaning -- length, ratio, force -- only the case file knows). After the varied parameters come the
+    case's other parameters at each point (``parameters``: their names), then both Kt bases with
+    their bands. ``shown`` converts the points for the CSV (e.g. to other output units); the JSONL keeps
+    the case's units."""
+
+    def __init__(self, folder: str, names: Sequence[str], *, parameters: Sequence[str] = (), stress_unit: str = "",
+                 case_units: str = "", shown=None):
         self.folder = folder
         self.names = list(names)
+        self.others = [n for n in parameters if n not in self.names]
+        self.stress_unit = stress_unit or "case stress unit"
+        self.case_units = case_units or "case units"
+        self.shown = shown
         self.jsonl = os.path.join(folder, "points.jsonl")
         self.csv = os.path.join(folder, "sweep.csv")
+
+    def headers(self) -> list[str]:
+        units = {"kt_net": "-", "kt_net_band": "-", "kt_gross": "-", "kt_gross_band": "-", "chart_kt": "-",
+                 "peak": self.stress_unit, "seconds": "s"}
+        return (["index", *(f"{n} (varied) [case: {self.case_units}]" for n in self.names),
+                 *(f"{n} [case: {self.case_units}]" for n in self.others)]
+                + [f"{c} [{units[c]}]" if c in units else c for c in COLUMNS[1:]])
 
     def finished(self, points: Sequence[dict[str, float]]) -> dict[int, PointResult]:
         """Points already in the folder whose parameter values match this sweep's."""
@@ -56,20 +75,18 @@ class SweepFiles:
 
         buf = io.StringIO()
         w = csv.writer(buf)
-        w.writerow(["index", *self.names, *COLUMNS[1:]])
-        for r in sorted(results, key=lambda r: r.index):
+        w.writerow(self.headers())
+        shown = self.shown(list(results)) if self.shown is not None else results
+        for r in sorted(shown, key=lambda r: r.index):
             d = r.to_json()
             w.writerow([r.index, *(repr(r.values[n]) for n in self.names),
+                        *(repr(r.parameters[n]) if n in r.parameters else "" for n in self.others),
                         *("" if d[c] is None else d[c] for c in COLUMNS[1:])])
         write_text(self.csv, buf.getvalue())
 
 
 def _same(a: Mapping[str, float], b: Mapping[str, float]) -> bool:
     return set(a) == set(b) and all(math.isclose(a[k], b[k], rel_tol=1e-12, abs_tol=1e-15) for k in b)
-
-
-
-
 
 
 def followed_text(feature: str | None, results) -> str:
@@ -118,7 +135,7 @@ def format_fit(fit) -> str:
     return "\n".join(lines)
 
 
-def format_target(t) -> str:
+def format_target(t, stress_unit: str = "") -> str:
     history = "; ".join(f"{t.name} = {p.value:.6g}: " + (f"Kt_{t.basis} {p.kt:.5g}" if p.kt is not None else p.status)
                         for p in sorted(t.history, key=lambda p: p.value))
     if not t.reached:
@@ -127,9 +144,26 @@ def format_target(t) -> str:
     band = f" +- {t.kt_band:.2g}" if t.kt_band is not None else ""
     vband = f" +- {t.value_band:.3g}" if t.value_band is not None else ""
     side = {"above": f"{t.name} >= {t.value:.6g}", "below": f"{t.name} <= {t.value:.6g}"}.get(t.keeps_below, "")
+    peak = f" (peak stress {num(t.peak)} {stress_unit})".replace(" )", ")") if t.peak is not None else ""
     return (f"{side}{vband} keeps Kt_{t.basis} of '{t.feature}' at or below {t.target:g}; at the bound Kt_{t.basis} = "
-            f"{t.kt:.5g}{band}. {t.evaluations} solves; stopped because {t.stop_reason}. The band on {t.name} is "
-            f"the Kt band divided by the local slope dKt/d{t.name}.\nSolves in order of {t.name}: {history}")
+            f"{t.kt:.5g}{band}{peak}. {t.evaluations} solves; stopped because {t.stop_reason}. The band on {t.name} "
+            f"is the Kt band divided by the local slope dKt/d{t.name}.\nSolves in order of {t.name}: {history}")
+
+
+def point_line(r, names: Sequence[str], basis: str) -> str:
+    """One finished sweep point, for the progress log."""
+    values = ", ".join(f"{n} = {num(r.values[n], 6)}" for n in names)
+    if r.status != "ok":
+        return f"point {r.index} ({values}): {r.status}: {r.message[:100]}"
+    kt = r.kt_net if basis == "net" else r.kt_gross
+    return f"point {r.index} ({values}): Kt_{basis} = {num(kt, 5)} at {r.feature} ({r.seconds:.1f} s)"
+
+
+def target_line(name: str, p, basis: str) -> str:
+    """One solve of goal-seeking (a SearchPoint), for the progress log."""
+    if p.kt is None:
+        return f"{name} = {p.value:.6g}: {p.status}: {p.message[:80]}"
+    return f"{name} = {p.value:.6g}: Kt_{basis} = {p.kt:.5g}"
 
 
 def write_sweep_plot(results, names, basis: str, path: str, title: str, fit=None, units: str = "") -> None:

@@ -8,15 +8,20 @@ from __future__ import annotations
 import math
 
 from ..records import Result
+from .units import engineering
 from .words import TWO_GRID_METHOD, component_chart_lines, family_check_lines, nearest_chart_line
 
 
 def num(v, digits: int = 4) -> str:
+    """``digits`` significant digits, never in exponent notation: numbers that ``%g`` would write as
+    ``5.987e+04`` are written in engineering form instead (``59870``, ``12.34×10⁶``; see
+    :func:`fekt.report.units.engineering`, plain digits without group separators in text)."""
     if v is None:
         return "n/a"
     if isinstance(v, float) and not math.isfinite(v):
         return "-"
-    return f"{v:.{digits}g}"
+    text = f"{v:.{digits}g}"
+    return engineering(v, digits, group="") if "e" in text else text
 
 
 def table(headers: list[str], rows: list[list[str]]) -> list[str]:

@@ -9,10 +9,19 @@ force / length^2. Reports may show results in other units, chosen with :class:`O
 Conversion factors come from pint (a general units library) and are computed once per pair of units;
 arrays are then simply multiplied by the factor (see :class:`Converter`).
 
-The command-line syntax parsed by :func:`parse_output_units` is ``STRESS,LENGTH`` -- for example
-``MPa,mm`` or ``ksi,in``. The two items may come in either order (no stress unit has the name of a
-length unit), spaces around them are ignored, and letter case is not significant (``mpa,MM`` means
-``MPa,mm``). One item alone sets that quantity and takes the other one from ``default``.
+The syntax parsed by :func:`parse_output_units` (``--units`` and the case file's ``[units] output``) is
+``STRESS,LENGTH`` -- for example ``MPa,mm`` or ``ksi,in``. The two items may come in either order (no
+stress unit has the name of a length unit), spaces around them are ignored, and letter case is not
+significant (``mpa,MM`` means ``MPa,mm``). One item alone sets that quantity and takes the other one from
+``default``. It lives in :mod:`fekt.case.output_units` (the case loader checks the key with it) and is
+re-exported here.
+
+Whole results: :func:`convert_result` gives a :class:`fekt.records.Result` with every stress, length,
+area, second moment, force and moment in the output units (forces in :func:`force_unit`), so every
+printer (text, JSON, HTML) shows them; :func:`convert_study` and :func:`convert_points` do the same for
+refinement studies and sweep points. Kt values never change. Every field of every record is listed with
+its dimension in ``_RECORD_FIELDS``; a field missing from the list stops the conversion with a message
+rather than being shown in the case's units.
 
 Number formatting (:func:`engineering` for quantities with a unit, :func:`unit_free` for Kt):
 
@@ -31,21 +40,19 @@ Number formatting (:func:`engineering` for quantities with a unit, :func:`unit_f
 
 from __future__ import annotations
 
+import dataclasses
 import functools
 import math
 from dataclasses import dataclass
 
 import numpy as np
 
-from ..errors import InputError
+from ..case.output_units import (LENGTH_UNITS, STRESS_UNITS, OutputUnits, check_unit,  # noqa: F401
+                                  parse_output_units)
 
 #: units a case may state (the same lists as :mod:`fekt.case.schema`)
 CASE_LENGTH_UNITS = ("mm", "cm", "m", "in")
 CASE_FORCE_UNITS = ("N", "kN", "MN", "lbf", "kip")
-
-#: units a report may show
-STRESS_UNITS = ("Pa", "kPa", "MPa", "GPa", "psi", "ksi")
-LENGTH_UNITS = ("mm", "cm", "m", "in")
 
 #: our unit names -> pint expressions (spelled out so no short name is ever read in another sense)
 _PINT = {
@@ -56,65 +63,6 @@ _PINT = {
 
 NARROW_NBSP = "\u202f"
 _SUPERSCRIPT = str.maketrans("-0123456789", "⁻⁰¹²³⁴⁵⁶⁷⁸⁹")
-
-
-# --- choosing units ------------------------------------------------------------------------------
-
-def _check(value: str, allowed: tuple[str, ...], item: str) -> None:
-    if value not in allowed:
-        raise InputError(f"unknown unit {value!r}; allowed: {', '.join(allowed)}", item=item)
-
-
-@dataclass(frozen=True)
-class OutputUnits:
-    """The stress and length units a report shows. Raises :class:`InputError` for a unit not offered."""
-
-    stress: str = "MPa"
-    length: str = "mm"
-
-    def __post_init__(self):
-        _check(self.stress, STRESS_UNITS, "output stress unit")
-        _check(self.length, LENGTH_UNITS, "output length unit")
-
-    def __str__(self) -> str:
-        return f"{self.stress},{self.length}"
-
-
-def _canonical(word: str) -> tuple[str, str] | None:
-    """('stress'|'length', canonical name) for a unit name in any letter case, else None."""
-    low = word.lower()
-    for kind, names in (("stress", STRESS_UNITS), ("length", LENGTH_UNITS)):
-        for name in names:
-            if name.lower() == low:
-                return kind, name
-    return None
-
-
-def parse_output_units(text: str, default: OutputUnits | None = None, *, item: str = "--units") -> OutputUnits:
-    """``"MPa,mm"`` / ``"ksi,in"`` / ``"psi"`` -> :class:`OutputUnits` (syntax in the module docstring).
-
-    With one item, the other quantity comes from ``default``; without a default both must be given.
-    """
-    words = [w.strip() for w in str(text).split(",")]
-    hint = "write STRESS,LENGTH, e.g. MPa,mm or ksi,in"
-    allowed = f"stress: {', '.join(STRESS_UNITS)}; length: {', '.join(LENGTH_UNITS)}"
-    if not 1 <= len(words) <= 2 or any(not w for w in words):
-        raise InputError(f"expected one or two units separated by a comma, got {text!r}", item=item, hint=hint)
-    chosen: dict[str, str] = {}
-    for w in words:
-        found = _canonical(w)
-        if found is None:
-            raise InputError(f"unknown unit {w!r}; allowed {allowed}", item=item, hint=hint)
-        kind, name = found
-        if kind in chosen:
-            raise InputError(f"two {kind} units given ({chosen[kind]} and {name})", item=item, hint=hint)
-        chosen[kind] = name
-    missing = [k for k in ("stress", "length") if k not in chosen]
-    if missing and default is None:
-        raise InputError(f"no {missing[0]} unit given in {text!r}", item=item, hint=hint)
-    for k in missing:
-        chosen[k] = getattr(default, k)
-    return OutputUnits(stress=chosen["stress"], length=chosen["length"])
 
 
 # --- conversion factors --------------------------------------------------------------------------
@@ -136,16 +84,16 @@ def _factor(source: str, target: str) -> float:
 
 def length_factor(case_length: str, out_length: str) -> float:
     """Multiplier from the case's length unit to an output length unit."""
-    _check(case_length, CASE_LENGTH_UNITS, "case length unit")
-    _check(out_length, LENGTH_UNITS, "output length unit")
+    check_unit(case_length, CASE_LENGTH_UNITS, "case length unit")
+    check_unit(out_length, LENGTH_UNITS, "output length unit")
     return _factor(_PINT[case_length], _PINT[out_length])
 
 
 def stress_factor(case_length: str, case_force: str, out_stress: str) -> float:
     """Multiplier from the case's stress unit (force / length^2) to an output stress unit."""
-    _check(case_length, CASE_LENGTH_UNITS, "case length unit")
-    _check(case_force, CASE_FORCE_UNITS, "case force unit")
-    _check(out_stress, STRESS_UNITS, "output stress unit")
+    check_unit(case_length, CASE_LENGTH_UNITS, "case length unit")
+    check_unit(case_force, CASE_FORCE_UNITS, "case force unit")
+    check_unit(out_stress, STRESS_UNITS, "output stress unit")
     return _factor(f"{_PINT[case_force]} / {_PINT[case_length]} ** 2", _PINT[out_stress])
 
 
@@ -187,6 +135,202 @@ def converter(case_length: str, case_force: str, output: OutputUnits) -> Convert
     """The :class:`Converter` from a case's (length, force) units to ``output``."""
     return Converter(output, stress_factor(case_length, case_force, output.stress),
                      length_factor(case_length, output.length))
+
+
+# --- whole result records ------------------------------------------------------------------------
+#
+# Every field of every record a result holds is listed below with its dimension, so that a field added
+# to a record later stops the conversion with a message instead of slipping through in the case's
+# units (a plausible wrong number). Dimensions: S stress, L length, L2 area, L4 second moment,
+# F force, M moment, "-" unchanged (ratios such as Kt, counts, text, times), R a nested record
+# (converted by its own entry), Q a load component's magnitude (dimension named by its quantity).
+
+_RECORD_FIELDS: dict[str, dict[str, str]] = {
+    "Result": {"case_name": "-", "source": "-", "demo": "-", "units": "-", "model": "-", "model_label": "-",
+               "thickness": "L", "material": "R", "load": "R", "mesh": "R", "timings": "R", "peaks": "R",
+               "most_compressive": "R", "warnings": "-", "notes": "-", "caution": "-", "provenance": "R",
+               "measure": "-", "estimate": "R", "family_check": "R", "schema": "-"},
+    "LoadFacts": {"axis": "-", "force": "F", "ends": "R", "components": "R"},
+    "EndFacts": {"name": "-", "width": "L", "moment": "M", "centroid": "L"},
+    "ComponentFacts": {"name": "-", "load": "-", "quantity": "-", "magnitude": "Q"},
+    "MeshFacts": {"elements": "-", "nodes": "-", "dofs": "-", "element": "-", "min_scaled_jacobian": "-",
+                  "size_max": "L", "feature_sizes": "L", "elements_per_radius": "-", "refine": "-", "area": "L2",
+                  "solver": "-"},
+    "StressPeak": {"rank": "-", "x": "L", "y": "L", "feature": "-", "feature_kind": "-", "singular": "-",
+                   "reason": "-", "peak": "S", "radius": "L", "element_size": "L", "net_section": "R", "N": "F",
+                   "M": "M", "sigma_nom_net": "S", "kt_net": "-", "gross_section": "R", "gross_rule": "-",
+                   "sigma_nom_gross": "S", "kt_gross": "-", "equilibrium_error": "-", "scatter": "S",
+                   "components": "R", "band": "R", "chart": "R", "component_charts": "R"},
+    "ComponentKt": {"name": "-", "quantity": "-", "stress": "S", "sigma_nom_net": "S", "kt_net": "-",
+                    "sigma_nom_gross": "S", "kt_gross": "-"},
+    "SectionRecord": {"s": "L", "width": "L", "area": "L2", "centroid": "L", "inertia": "L4", "intervals": "L",
+                      "polar": "L4"},
+    "Compressive": {"sigma": "S", "x": "L", "y": "L"},
+    # chart dimensions (d, W, D, r, H, t, a, b) are lengths; everything else of a chart check is a ratio
+    "ChartCheck": {"kind": "-", "family": "-", "load": "-", "fit": "-", "source": "-", "confidence": "-",
+                   "from_memory": "-", "basis": "-", "nominal": "-", "dims": "L", "chart_kt": "-", "fe_kt": "-",
+                   "difference_pct": "-", "band_pct": "-", "within_band": "-", "coverage": "-",
+                   "coverage_notes": "-", "ratios": "-", "chart_kt_net": "-", "component": "-"},
+    "NoChart": {"reason": "-", "detail": "-", "family": "-", "load": "-", "component": "-"},
+    # records that hold no stress or length at all (listed so that a new field is noticed)
+    "Band": {"verdict": "-", "method": "-", "kt_net": "-", "kt_gross": "-", "values_fine_to_coarse": "-",
+             "dofs_fine_to_coarse": "-", "observed_order": "-", "order_used": "-", "gci_fs": "-",
+             "extrapolated": "-", "convergence_band": "-", "scatter_floor": "-", "largest_change": "-",
+             "formal_order": "-"},
+    "Timings": {"geometry_s": "-", "mesh_s": "-", "assemble_s": "-", "solve_s": "-", "post_s": "-", "total_s": "-",
+                "estimate_s": "-", "charts_s": "-", "wall_s": "-"},
+    "Provenance": {"versions": "-", "case_sha256_16": "-", "max_reaction_over_load": "-"},
+    "UnitsRecord": {"length": "-", "force": "-", "stress": "-", "moment": "-"},
+    "EstimateFacts": {"method": "-", "ratio": "-", "coarse_dofs": "-", "coarse_seconds": "-"},
+    "FamilyCheck": {"family": "-", "load": "-", "peak_rank": "-", "no_chart": "R"},
+    # a refinement study (fekt.studies.convergence): only the peak locations have a unit
+    "Study": {"case_name": "-", "demo": "-", "ratio": "-", "nested": "-", "formal_order": "-", "policy": "-",
+              "levels": "R", "spots": "R", "seconds": "-", "caution": "-", "schema": "-"},
+    "SpotStudy": {"rank": "-", "key": "-", "x": "L", "y": "L", "singular": "-", "values": "-", "sizes": "-",
+                  "dofs": "-", "verdict": "-", "estimate": "-", "band": "-", "extrapolated": "-",
+                  "gross_over_net": "-", "convergence_band": "-", "scatter_floor": "-", "largest_change": "-"},
+    "LevelFacts": {"level": "-", "elements_per_radius": "-", "refine": "-", "elements": "-", "dofs": "-",
+                   "relative_size": "-", "seconds": "-"},
+    # sweeps and goal-seeking (fekt.studies.sweep): parameter values stay as the case file gives them
+    # (a parameter may be a length, a ratio or a stress; fekt cannot tell)
+    "PointResult": {"index": "-", "values": "-", "parameters": "-", "status": "-", "message": "-", "feature": "-",
+                    "kt_net": "-", "kt_net_band": "-", "kt_gross": "-", "kt_gross_band": "-", "chart_kt": "-",
+                    "chart_basis": "-", "peak": "S", "seconds": "-", "peaks": "R"},
+    "PeakSummary": {"rank": "-", "feature": "-", "kind": "-", "peak": "S", "kt_net": "-", "kt_net_band": "-",
+                    "kt_gross": "-", "kt_gross_band": "-", "singular": "-"},
+    "TargetResult": {"name": "-", "target": "-", "basis": "-", "feature": "-", "reached": "-", "value": "-",
+                     "keeps_below": "-", "kt": "-", "kt_band": "-", "value_band": "-", "evaluations": "-",
+                     "history": "R", "stop_reason": "-", "peak": "S"},
+    "SearchPoint": {"value": "-", "status": "-", "kt": "-", "band": "-", "message": "-", "peak": "S"},
+}
+
+#: the force unit that goes with a pair of output units when stress x length^2 is exactly that force
+_FORCE_OF = {("Pa", "m"): "N", ("kPa", "m"): "kN", ("MPa", "m"): "MN", ("MPa", "mm"): "N", ("GPa", "mm"): "kN",
+             ("psi", "in"): "lbf", ("ksi", "in"): "kip"}
+#: the dimension of a load component's magnitude, by its quantity
+_QUANTITY = {"force": "F", "moment": "M", "torque": "M", "stress": "S"}
+
+
+def force_unit(output: OutputUnits) -> str:
+    """The force unit shown with ``output``: the one equal to stress x length^2 where there is one
+    (MPa and mm -> N, ksi and in -> kip), otherwise the newton for SI stress units and the pound-force
+    for psi and ksi (moments are then in that force times the output length)."""
+    return _FORCE_OF.get((output.stress, output.length), "lbf" if output.stress in ("psi", "ksi") else "N")
+
+
+@dataclass(frozen=True)
+class RecordUnits:
+    """Factors from the units a record's numbers are in to ``output`` (one per dimension)."""
+
+    output: OutputUnits
+    force: str
+    factors: dict[str, float]
+
+    @property
+    def moment(self) -> str:
+        return f"{self.force}*{self.output.length}"
+
+    def scale(self, value, dim: str):
+        """A value of dimension ``dim`` in the output units: numbers, None, and tuples or dicts of them."""
+        if dim == "-" or value is None:
+            return value
+        if isinstance(value, dict):
+            return {k: self.scale(v, dim) for k, v in value.items()}
+        if isinstance(value, (tuple, list)):
+            return tuple(self.scale(v, dim) for v in value)
+        if isinstance(value, bool) or not isinstance(value, (int, float, np.floating, np.integer)):
+            raise TypeError(f"cannot convert {type(value).__name__} {value!r} as a {dim} quantity")
+        return float(value) * self.factors[dim]
+
+
+def record_units(length: str, force: str, stress: str, output: OutputUnits) -> RecordUnits:
+    """Factors from numbers given with these length, force and stress labels to ``output``.
+
+    The stress factor comes from the stress label when it is a unit reports offer (so a result already
+    converted to, say, ksi with mm converts again correctly), otherwise from force / length^2."""
+    out_force = force_unit(output)
+    check_unit(length, CASE_LENGTH_UNITS, "length unit of the result")
+    check_unit(force, CASE_FORCE_UNITS, "force unit of the result")
+    fl = length_factor(length, output.length)
+    ff = _factor(_PINT[force], _PINT[out_force])
+    fs = (_factor(_PINT[stress], _PINT[output.stress]) if stress in STRESS_UNITS
+          else stress_factor(length, force, output.stress))
+    return RecordUnits(output, out_force, {"S": fs, "L": fl, "L2": fl * fl, "L4": fl ** 4, "F": ff, "M": ff * fl})
+
+
+def _convert(record, ru: RecordUnits):
+    """A copy of a frozen record (or a tuple of them) with every field in the output units."""
+    if isinstance(record, tuple):
+        return tuple(_convert(r, ru) for r in record)
+    if record is None:
+        return None
+    name = type(record).__name__
+    table = _RECORD_FIELDS.get(name)
+    if table is None:
+        raise TypeError(f"no unit table for a {name} record (add it to fekt.report.units._RECORD_FIELDS)")
+    changes = {}
+    for f in dataclasses.fields(record):
+        dim = table.get(f.name)
+        if dim is None:
+            raise TypeError(f"{name}.{f.name}: its dimension is not known to the unit conversion (add it to "
+                            "fekt.report.units._RECORD_FIELDS); refusing to show it in the case's units")
+        value = getattr(record, f.name)
+        if dim == "R":
+            changes[f.name] = _convert(value, ru) if f.name != "material" else _material(value, ru)
+        elif dim == "Q":
+            q = _QUANTITY.get(record.quantity)
+            if q is None:
+                raise TypeError(f"load component '{record.name}': cannot convert a {record.quantity!r} magnitude")
+            changes[f.name] = ru.scale(value, q)
+        elif dim != "-":
+            changes[f.name] = ru.scale(value, dim)
+    return dataclasses.replace(record, **changes) if changes else record
+
+
+def _material(material: dict, ru: RecordUnits) -> dict:
+    known = {"E": "S", "G": "S", "nu": "-"}
+    unknown = [k for k in material if k not in known]
+    if unknown:
+        raise TypeError(f"material constant(s) {', '.join(unknown)}: dimension not known to the unit conversion")
+    return {k: ru.scale(v, known[k]) for k, v in material.items()}
+
+
+def units_note(result_units, ru: RecordUnits) -> str:
+    """The note a converted result carries: which units its numbers are in, and what stays in the case's."""
+    return (f"Numbers are shown in {ru.output.stress} and {ru.output.length} (forces in {ru.force}, moments in "
+            f"{ru.moment}); the case file gives lengths in {result_units.length} and forces in "
+            f"{result_units.force}. Feature names, warnings and notes quote coordinates and lengths in the "
+            "case file's units; Kt values are ratios and do not change.")
+
+
+def convert_result(result, output: OutputUnits):
+    """``result`` (a :class:`fekt.records.Result`) with every stress, length, area, second moment, force
+    and moment in ``output`` (forces in :func:`force_unit`); Kt values, ratios, counts and times unchanged.
+    Its ``units`` record names the new units, and a note says what the case file's units were (warnings
+    and feature names are text written in the case's units). Converting twice equals converting once."""
+    u = result.units
+    ru = record_units(u.length, u.force, u.stress, output)
+    same = (u.length, u.force, u.stress) == (output.length, ru.force, output.stress)
+    converted = _convert(result, ru)
+    if same:
+        return converted
+    notes = tuple(n for n in result.notes if not n.startswith("Numbers are shown in "))
+    return dataclasses.replace(converted, units=type(u)(output.length, ru.force, output.stress, ru.moment),
+                               notes=notes + (units_note(u, ru),))
+
+
+def convert_study(study, length: str, force: str, stress: str, output: OutputUnits):
+    """A refinement study (:class:`fekt.studies.convergence.Study`) with its peak locations in ``output``
+    (its other numbers are Kt values, counts, relative sizes and times). ``length``, ``force``, ``stress``:
+    the case's unit labels."""
+    return _convert(study, record_units(length, force, stress, output))
+
+
+def convert_points(points, length: str, force: str, stress: str, output: OutputUnits):
+    """Sweep points or a goal-seeking answer (:mod:`fekt.studies.sweep`) with peak stresses in ``output``;
+    parameter values stay as the case file gives them."""
+    ru = record_units(length, force, stress, output)
+    return _convert(tuple(points), ru) if isinstance(points, (list, tuple)) else _convert(points, ru)
 
 
 # --- formatting ----------------------------------------------------------------------------------

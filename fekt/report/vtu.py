@@ -83,3 +83,38 @@ def read_back(path) -> VtuContent:
     return VtuContent(points=np.asarray(mesh.points), cells6=np.asarray(mesh.cells[0].data),
                       point_data={k: np.asarray(v) for k, v in mesh.point_data.items()},
                       cell_data={k: np.asarray(v[0]) for k, v in mesh.cell_data.items()})
+
+
+# --- fekt's nodal fields -------------------------------------------------------------------------
+
+def field_arrays(nodal, stress_unit: str, length_unit: str, stress_factor: float = 1.0,
+                 length_factor: float = 1.0) -> tuple[object, dict[str, object]]:
+    """(points, named point data) of :class:`fekt.post.export.NodalFields`, each name carrying its unit;
+    the factors take the case's units to the output units (1 for none)."""
+    a, b = nodal.coordinates
+    out_of_plane = "z" if (a, b) == ("x", "y") else "h"
+    s = nodal.stress
+
+    def st(v):
+        return np.asarray(v, dtype=float) * stress_factor
+
+    data = {
+        f"displacement [{length_unit}]": np.asarray(nodal.displacement, dtype=float) * length_factor,
+        f"sigma_{a}{a} [{stress_unit}]": st(s.xx),
+        f"sigma_{b}{b} [{stress_unit}]": st(s.yy),
+        f"sigma_{a}{b} [{stress_unit}]": st(s.xy),
+        f"sigma_{out_of_plane}{out_of_plane} [{stress_unit}]": st(s.hh),
+        f"max principal stress [{stress_unit}]": st(nodal.s1),
+        f"min principal stress [{stress_unit}]": st(nodal.s2),
+        f"von Mises stress [{stress_unit}]": st(nodal.von_mises),
+        f"boundary tangential stress [{stress_unit}]": st(nodal.boundary_stt),
+        "elements averaged at node [-]": np.asarray(nodal.elements_per_node, dtype=float),
+    }
+    return np.asarray(nodal.points, dtype=float) * length_factor, data
+
+
+def write_fields(path, nodal, stress_unit: str, length_unit: str, stress_factor: float = 1.0,
+                 length_factor: float = 1.0) -> None:
+    """Write fekt's nodal fields (:mod:`fekt.post.export`) as a VTU file (names in :func:`field_arrays`)."""
+    points, data = field_arrays(nodal, stress_unit, length_unit, stress_factor, length_factor)
+    write_vtu(path, points, nodal.cells6, data)

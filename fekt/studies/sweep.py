@@ -13,10 +13,11 @@ import itertools
 import os
 import time
 from collections.abc import Callable, Iterable, Sequence
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 
+from ..case.expr import resolve_parameters
 from ..case.loader import case_from_dict
 from ..errors import FektError, InputError
 from ..kinds import FeatureKind
@@ -62,6 +63,9 @@ class PointResult:
     peak: float | None = None
     seconds: float = 0.0
     peaks: tuple[PeakSummary, ...] = ()
+    #: every parameter of the case at this point (varied and not varied, expressions evaluated); empty
+    #: when the parameters themselves cannot be evaluated there
+    parameters: dict[str, float] = field(default_factory=dict)
 
     def to_json(self) -> dict:
         return to_jsonable(self)
@@ -71,6 +75,18 @@ class PointResult:
         fields = dict(d)
         fields["peaks"] = tuple(PeakSummary(**p) for p in fields.get("peaks", ()))
         return cls(**fields)
+
+
+def point_parameters(table: dict, values: dict[str, float]) -> dict[str, float]:
+    """Every parameter of the case file's table with ``values`` overriding the named ones ({} when the
+    parameters cannot be evaluated: the point's own message then says why)."""
+    raw = table.get("parameters", {})
+    if not isinstance(raw, dict):
+        return {}
+    try:
+        return resolve_parameters({**raw, **values})
+    except InputError:
+        return {}
 
 
 def followed_peak(peaks, feature: str | None):
@@ -101,13 +117,14 @@ def run_point(table: dict, source: str, index: int, values: dict[str, float], es
     from .evaluate import solve_full
 
     t0 = time.perf_counter()
+    params = point_parameters(table, values)
     try:
         case = case_from_dict(table, source, overrides=values, catalogue=CATALOGUE)
         r = solve_full(case, estimate=estimate).result
     except InputError as exc:
-        return PointResult(index, values, "invalid", str(exc), seconds=time.perf_counter() - t0)
+        return PointResult(index, values, "invalid", str(exc), seconds=time.perf_counter() - t0, parameters=params)
     except FektError as exc:
-        return PointResult(index, values, "failed", str(exc), seconds=time.perf_counter() - t0)
+        return PointResult(index, values, "failed", str(exc), seconds=time.perf_counter() - t0, parameters=params)
     summaries = tuple(PeakSummary(h.rank, h.feature, str(h.feature_kind), h.peak, h.kt_net,
                                   h.band.kt_net if h.band else None, h.kt_gross,
                                   h.band.kt_gross if h.band else None, h.singular) for h in r.peaks)
@@ -117,7 +134,7 @@ def run_point(table: dict, source: str, index: int, values: dict[str, float], es
             "no stress peak with a finite Kt"
         known = sorted({h.feature for h in r.peaks})
         return PointResult(index, values, "failed", what + (f" (features: {', '.join(known)})" if feature else ""),
-                           seconds=time.perf_counter() - t0, peaks=summaries)
+                           seconds=time.perf_counter() - t0, peaks=summaries, parameters=params)
     band_n, band_g = (top.band.kt_net, top.band.kt_gross) if top.band else (None, None)
     chart, basis = None, ""
     if r.family_check is not None and r.family_check.peak_rank is not None:
@@ -125,7 +142,7 @@ def run_point(table: dict, source: str, index: int, values: dict[str, float], es
         if isinstance(check, ChartCheck):
             chart, basis = check.chart_kt, str(check.basis)
     return PointResult(index, values, "ok", "", top.feature, top.kt_net, band_n, top.kt_gross, band_g, chart, basis,
-                       top.peak, time.perf_counter() - t0, summaries)
+                       top.peak, time.perf_counter() - t0, summaries, dict(case.parameters))
 
 
 # --- executors --------------------------------------------------------------------------------------
@@ -312,6 +329,7 @@ class SearchPoint:
     kt: float | None
     band: float | None
     message: str = ""
+    peak: float | None = None  # the followed peak's stress (the case's stress unit)
 
 
 @dataclass(frozen=True)
@@ -337,6 +355,7 @@ class TargetResult:
     evaluations: int
     history: tuple[SearchPoint, ...]
     stop_reason: str
+    peak: float | None = None  # the peak stress at the bound (the case's stress unit)
 
 
 def goal_seek(table: dict, source: str, name: str, kt_target: float, bounds: tuple[float, float],
@@ -362,7 +381,7 @@ def goal_seek(table: dict, source: str, name: str, kt_target: float, bounds: tup
         if r.status == "ok":
             followed = followed or r.feature
             band = r.kt_net_band if basis == "net" else r.kt_gross_band
-            sp = SearchPoint(float(x), "ok", getattr(r, key), band)
+            sp = SearchPoint(float(x), "ok", getattr(r, key), band, peak=r.peak)
         else:
             sp = SearchPoint(float(x), r.status, None, None, r.message)
         history.append(sp)
@@ -410,4 +429,4 @@ def goal_seek(table: dict, source: str, name: str, kt_target: float, bounds: tup
     if slope:
         keeps = "below" if slope > 0 else "above"  # Kt rises with the value: smaller values keep it lower
     return TargetResult(name, kt_target, basis, followed, True, float(x_star), keeps, final.kt, final.band,
-                        value_band, len(history), tuple(history), stop)
+                        value_band, len(history), tuple(history), stop, final.peak)
