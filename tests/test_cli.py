@@ -46,7 +46,7 @@ def test_out_dir_written_and_not_overwritten(tmp_path, capsys):
     out = tmp_path / "res"
     case = os.path.join(ROOT, "cases", "strip_hole.toml")
     assert main(["solve", case, "--out", str(out)]) == 0
-    assert sorted(os.listdir(out)) == ["report.txt", "result.json", "stress.png"]
+    assert sorted(n for n in os.listdir(out) if not n.startswith(".")) == ["report.txt", "result.json", "stress.png"]
     assert main(["solve", case, "--out", str(out)]) == 2
     assert "already exists" in capsys.readouterr().err
     assert main(["solve", case, "--out", str(out), "--force"]) == 0

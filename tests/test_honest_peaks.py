@@ -8,12 +8,11 @@ import math
 import numpy as np
 import pytest
 
-from conftest import rect_outline, strip_case
+from conftest import strip_case
 from fekt.api import parse_case, solve
-from fekt.case.schema import Case, CutoutSpec, MeshSpec, NotchSpec, PartSpec, Vertex
+from fekt.case.schema import CutoutSpec, NotchSpec, PartSpec, Vertex
 from fekt.geometry.build import build_part
 from fekt.kinds import FeatureKind
-from fekt.loads.ends import EndsSpec
 from fekt.pipeline import run
 
 

@@ -69,7 +69,7 @@ def test_resume_computes_only_missing_points(tmp_path, monkeypatch, capsys):
 
     monkeypatch.setattr(sw, "run_point", interrupted)
     assert main(args) == 130
-    assert len(open(out / "points.jsonl").read().splitlines()) == 2
+    assert len(open(out / "points.jsonl").read().splitlines()) == 1 + 2  # the header and two points
     monkeypatch.setattr(sw, "run_point", lambda *a, **k: (calls.append(a[2]), real(*a, **k))[1])
     assert main(args) == 2  # the folder exists: resume or force must be said
     assert main(args + ["--resume", "--json"]) == 0

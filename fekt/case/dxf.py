@@ -178,7 +178,7 @@ def _piece_points(pc: Piece, n: int = 64) -> list[tuple[float, float]]:
 def check_against_flattening(entity, pieces: list[Piece], scale: float, source: str) -> None:
     """The curves fekt built from an entity must trace the entity as ezdxf flattens it (same points, same
     length); a mismatch stops with a message naming the entity, never a different part."""
-    from shapely.geometry import LineString, MultiLineString, Point
+    from shapely.geometry import MultiLineString, Point
 
     curves = [[(x * scale, y * scale) for x, y in c] for c in _flat_curves(entity)]
     curves = [c for c in curves if len(c) >= 2]

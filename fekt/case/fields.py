@@ -12,7 +12,7 @@ standard shapes) that live further down the data flow; the caller passes it in
 from __future__ import annotations
 
 import difflib
-from collections.abc import Callable, Mapping, Sequence
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 from typing import Any, Protocol
 

@@ -6,6 +6,7 @@ import json
 import sys
 
 from . import review_out
+from .output import add_force_argument
 
 
 def add_parser(sub) -> None:
@@ -20,24 +21,31 @@ def add_parser(sub) -> None:
     p.add_argument("--feature", metavar="NAME", help="study only this feature's stress peaks")
     p.add_argument("--json", action="store_true", help="print the study as JSON")
     p.add_argument("--out", metavar="DIR", help="write study.json, study.csv, report.txt and convergence.png")
-    p.add_argument("--force", action="store_true", help="replace DIR if it already exists")
+    add_force_argument(p)
     review_out.add_options(p, html=True)
     p.set_defaults(run=run)
 
 
 def run(args) -> int:
-    from ..report.convergence import format_study, study_csv, write_study_plot
-    from ..report.files import write_json, write_text
-    from ..studies.convergence import converge
     from .main import UsageError
-    from .output import check_out_dir, write_out_dir
-    from .solve_cmd import load
+    from .output import prepare_output
 
     if args.jobs < 1:
         raise UsageError(f"--jobs {args.jobs} must be at least 1")
     review_out.check(args)
-    if args.out:
-        check_out_dir(args.out, args.force)
+    names = ["study.json", "study.csv", "report.txt", "convergence.png"] + (["report.html"] if args.html else [])
+    with prepare_output(args.out, force=args.force, command="converge", files=names) as out:
+        _run(args, out)
+    if out and not args.json:
+        print(f"wrote {out.shown}: {', '.join(names)}", file=sys.stderr)
+    return 0
+
+
+def _run(args, out) -> None:
+    from ..report.convergence import format_study, study_csv, write_study_plot
+    from ..studies.convergence import converge
+    from .solve_cmd import load
+
     case = load(args)
     units = review_out.output_units(args, case.units)
     show = not args.json and sys.stderr.isatty()
@@ -54,19 +62,18 @@ def run(args) -> int:
 
     try:
         study = converge(case, levels=args.levels, ratio=args.ratio, nested=args.nested, jobs=args.jobs,
-                         feature=args.feature,
-                         progress=progress)
+                         feature=args.feature, progress=progress)
     finally:
         if bar is not None:
             bar.close()
     study = review_out.shown_study(study, case, units)
     text = format_study(study)
     print(json.dumps(study.to_dict(), indent=2, allow_nan=False) if args.json else text)
-    if args.out:
+    if out:
         length = units.length if units else case.units.length
-        write_out_dir(args.out, {"study.json": lambda p: write_json(p, study.to_dict()),
-                                 "study.csv": lambda p: write_text(p, study_csv(study, length)),
-                                 "report.txt": lambda p: write_text(p, text + "\n"),
-                                 "convergence.png": lambda p: write_study_plot(study, p),
-                                 **review_out.study_files(args, study, case, units)})
-    return 0
+        out.write_json("study.json", study.to_dict())
+        out.write_text("study.csv", study_csv(study, length))
+        out.write_text("report.txt", text + "\n")
+        out.write_with("convergence.png", lambda p: write_study_plot(study, p))
+        for name, write in review_out.study_files(args, study, case, units).items():
+            out.write_with(name, write)

@@ -164,14 +164,12 @@ def points_shown(case, ou: OutputUnits | None) -> Callable:
     return lambda points: convert_points(points, u.length, u.force, u.stress, ou)
 
 
-def sweep_html(args, folder: str, results, names, fit, case) -> str | None:
-    """Write report.html of a sweep into ``folder`` when --html was given; returns its name."""
+def sweep_html(args, folder, results, names, fit, case) -> str | None:
+    """Write report.html of a sweep into ``folder`` (a :class:`fekt.cli.output.SweepFolder`) when --html
+    was given; returns its name."""
     if not getattr(args, "html", False):
         return None
-    import os
-
     from ..pipeline import CAUTION, case_hash
-    from ..report.files import write_atomic
     from ..report.review import sweep_document, write_html
 
     ou = output_units(args, case.units)
@@ -180,5 +178,5 @@ def sweep_html(args, folder: str, results, names, fit, case) -> str | None:
                          source=args.case, case_text=case_text(args.case),
                          stress_unit=ou.stress if ou else case.units.stress, fit=fit, demo=case.demo,
                          caution=CAUTION, fixed=fixed, case_hash=case_hash(case))
-    write_atomic(os.path.join(folder, "report.html"), lambda tmp: write_html(tmp, doc))
+    folder.write_with("report.html", lambda tmp: write_html(tmp, doc))
     return "report.html"

@@ -9,6 +9,7 @@ import sys
 import time
 
 from . import review_out
+from .output import add_force_argument
 
 
 def add_parser(sub) -> None:
@@ -17,7 +18,7 @@ def add_parser(sub) -> None:
     p.add_argument("--json", action="store_true", help="print the full result as JSON instead of the table")
     p.add_argument("--out", metavar="DIR", help="write result.json, report.txt and stress.png into DIR (and "
                    "report.html, field.vtu with --html, --vtu)")
-    p.add_argument("--force", action="store_true", help="replace DIR if it already exists")
+    add_force_argument(p)
     p.add_argument("--elements-per-radius", type=float, help="override the case's mesh.elements_per_radius")
     p.add_argument("--no-estimate", action="store_true",
                    help="skip the second, coarser mesh that gives each Kt its uncertainty band")
@@ -45,32 +46,32 @@ def load(args):
 
 def run(args) -> int:
     from ..api import solve_full
-    from ..report.files import write_json, write_text
     from ..report.text import format_result
-    from .output import check_out_dir, write_out_dir
+    from .main import STARTED
+    from .output import prepare_output
 
     review_out.check(args)
-    if args.out:
-        check_out_dir(args.out, args.force)
-    case = load(args)
-    units = review_out.output_units(args, case.units)
-    solved = solve_full(case, estimate=not args.no_estimate)
-    from .main import STARTED
+    names = ["result.json", "report.txt", "stress.png"] + [n for n, flag in (("report.html", "html"),
+                                                                            ("field.vtu", "vtu"))
+                                                           if getattr(args, flag, False)]
+    with prepare_output(args.out, force=args.force, command="solve", files=names) as out:
+        case = load(args)
+        units = review_out.output_units(args, case.units)
+        solved = solve_full(case, estimate=not args.no_estimate)
+        timed = dataclasses.replace(solved.result, timings=dataclasses.replace(
+            solved.result.timings, wall_s=time.perf_counter() - STARTED))
+        solved = dataclasses.replace(solved, result=timed)
+        result = review_out.shown_result(solved.result, units)
+        text = format_result(result)
+        print(json.dumps(result.to_dict(), indent=2) if args.json else text)
+        if out:
+            from ..report.plots import write_figure
 
-    timed = dataclasses.replace(solved.result, timings=dataclasses.replace(
-        solved.result.timings, wall_s=time.perf_counter() - STARTED))
-    solved = dataclasses.replace(solved, result=timed)
-    result = review_out.shown_result(solved.result, units)
-    text = format_result(result)
-    print(json.dumps(result.to_dict(), indent=2) if args.json else text)
-    if args.out:
-        from ..report.plots import write_figure
-
-        files = {"result.json": lambda p: write_json(p, result.to_dict()),
-                 "report.txt": lambda p: write_text(p, text + "\n"),
-                 "stress.png": lambda p: write_figure(solved, p),
-                 **review_out.solve_files(args, solved, result, units)}
-        write_out_dir(args.out, files)
-        if not args.json:
-            print(f"wrote {args.out}/{', '.join(files)}", file=sys.stderr)
+            out.write_json("result.json", result.to_dict())
+            out.write_text("report.txt", text + "\n")
+            out.write_with("stress.png", lambda p: write_figure(solved, p))
+            for name, write in review_out.solve_files(args, solved, result, units).items():
+                out.write_with(name, write)
+    if out and not args.json:
+        print(f"wrote {out.shown}: {', '.join(names)}", file=sys.stderr)
     return 0

@@ -8,6 +8,7 @@ import sys
 
 from ..errors import InputError
 from . import review_out
+from .output import add_force_argument
 
 
 def parse_vary(spec: str) -> tuple[str, list[float]]:
@@ -43,7 +44,7 @@ def add_parser(sub) -> None:
                    help="a parameter and its values (START:STOP:COUNT or v1,v2,...); repeat for a grid")
     p.add_argument("--out", metavar="DIR", help="results folder (default: <case>-sweep next to the case)")
     p.add_argument("--resume", action="store_true", help="keep the points already in DIR and compute the rest")
-    p.add_argument("--force", action="store_true", help="start over in an existing DIR")
+    add_force_argument(p)
     p.add_argument("--executor", choices=("pool", "serial", "dask"), default="pool",
                    help="where points run: local processes (default), one process, or a Dask cluster")
     p.add_argument("--workers", type=int, help="local processes (default: all cores)")
@@ -67,7 +68,7 @@ def add_parser(sub) -> None:
     t.add_argument("--basis", choices=("net", "gross"), default="net", help="Kt on the net or gross section")
     t.add_argument("--feature", metavar="NAME", help="the feature whose Kt is held (default: the leading notch peak)")
     t.add_argument("--out", metavar="DIR", help="write the search (target.json, report.txt) into DIR")
-    t.add_argument("--force", action="store_true", help="replace DIR if it already exists")
+    add_force_argument(t)
     t.add_argument("--json", action="store_true", help="print the answer as JSON")
     review_out.add_options(t, html=False)
     t.set_defaults(run=run_target)
@@ -75,11 +76,9 @@ def add_parser(sub) -> None:
 
 def run_sweep(args) -> int:
     from ..api import case_from_dict, read_case_table
-    from ..records import SWEEP_SCHEMA, to_jsonable
-    from ..report.files import write_json, write_text
-    from ..report.sweep import SweepFiles, format_sweep, point_line, write_sweep_plot
-    from ..studies.sweep import fit_results, grid, run_points
+    from ..studies.sweep import grid
     from .main import UsageError
+    from .output import prepare_sweep_folder
 
     if not os.path.isfile(args.case):
         raise UsageError(f"case file '{args.case}' not found")
@@ -88,26 +87,41 @@ def run_sweep(args) -> int:
     names = [n for n, _ in varies]
     # check the names and the unvaried case once, before any work
     case = case_from_dict(table, args.case, overrides={n: v[0] for n, v in varies})
-    units = review_out.output_units(args, case.units)
-    shown = review_out.points_shown(case, units)
     points = grid(varies)
     out = args.out or os.path.splitext(args.case)[0] + "-sweep"
-    if os.path.exists(out) and os.listdir(out) and not (args.resume or args.force):
-        raise UsageError(f"output folder '{out}' already exists and is not empty",
-                         hint="pass --resume to finish that sweep, --force to start over, or choose another --out")
-    os.makedirs(out, exist_ok=True)
-    files = SweepFiles(out, names, parameters=[n for n, _ in case.parameters], shown=shown,
+    with prepare_sweep_folder(out, force=args.force, resume=args.resume) as folder:
+        return _sweep_in(folder, args, table, case, names, points)
+
+
+def _sweep_in(folder, args, table, case, names, points) -> int:
+    from ..records import SWEEP_SCHEMA, to_jsonable
+    from ..report.resume import SWEEP_POINT_SCHEMA, file_sha256
+    from ..report.sweep import SweepFiles, format_sweep, point_line, same_values, write_sweep_plot
+    from ..studies.sweep import PointResult, fit_results, run_points
+
+    units = review_out.output_units(args, case.units)
+    shown = review_out.points_shown(case, units)
+    # the resume file holds the points in the case's own units; a resumed point must come from the same
+    # case file and the same settings (the store refuses others before anything is removed)
+    store = folder.open_store(case_sha256=file_sha256(args.case), schema=SWEEP_POINT_SCHEMA,
+                              settings={"varied": names, "estimate": not args.no_estimate,
+                                        "feature": args.feature})
+    for note in store.notes:
+        print(f"fekt: warning: {note}", file=sys.stderr)
+    done: dict[int, PointResult] = {}
+    for d in store.records:
+        i = d["index"]
+        if i < len(points) and same_values(d["values"], points[i]):
+            done[i] = PointResult.from_json(d)
+    files = SweepFiles(folder.path, names, parameters=[n for n, _ in case.parameters], shown=shown,
                        stress_unit=units.stress if units else case.units.stress,
                        case_units=f"{case.units.length}, {case.units.force}")
-    if args.force and os.path.exists(files.jsonl):
-        os.remove(files.jsonl)
-    done = files.finished(points) if args.resume else {}
     executor = "dask" if args.scheduler else args.executor
     progress = review_out.Progress("sweep", total=len(points) - len(done))
     results = list(done.values())
 
     def on_result(r):
-        files.append(r)
+        store.append(r.to_json())
         results.append(r)
         progress.step(point_line(r, names, args.basis))
 
@@ -117,33 +131,31 @@ def run_sweep(args) -> int:
                    feature=args.feature)
     finally:
         progress.close()
-        files.write_csv(results)
+        folder.write_with("sweep.csv", lambda p: files.write_csv(results, p))
     results.sort(key=lambda r: r.index)
     fit = fit_results(results, names, args.fit, args.basis) if args.fit else None
     text = format_sweep(results, names, args.basis, fit, args.feature)
     data = {"schema": SWEEP_SCHEMA, "case": args.case, "varied": names, "basis": args.basis,
             "feature": args.feature, "units": {"peak": files.stress_unit, "parameters": files.case_units},
             "points": [r.to_json() for r in shown(results)], "resumed_points": len(done), "fit": to_jsonable(fit)}
-    write_json(os.path.join(out, "sweep.json"), data)
-    write_text(os.path.join(out, "report.txt"), text + "\n")
+    folder.write_json("sweep.json", data)
+    folder.write_text("report.txt", text + "\n")
     followed = args.feature or ", ".join(sorted({r.feature for r in results if r.status == "ok"})) or "-"
-    write_sweep_plot(results, names, args.basis, os.path.join(out, "sweep.png"),
-                     f"{os.path.basename(args.case)}: Kt_{args.basis} of {followed} over {', '.join(names)} "
-                     "(your own FE chart)", fit)
-    html = review_out.sweep_html(args, out, results, names, fit, case)
+    title = (f"{os.path.basename(args.case)}: Kt_{args.basis} of {followed} over {', '.join(names)} "
+             "(your own FE chart)")
+    folder.write_with("sweep.png", lambda p: write_sweep_plot(results, names, args.basis, p, title, fit))
+    html = review_out.sweep_html(args, folder, results, names, fit, case)
     print(json.dumps(data, indent=2) if args.json else text)
     if not args.json:
-        print(f"wrote {out}/points.jsonl, sweep.csv, sweep.json, report.txt, sweep.png" + (f", {html}" if html else "")
-              + (f" ({len(done)} points reused)" if done else ""), file=sys.stderr)
+        print(f"wrote {folder.shown}: points.jsonl, sweep.csv, sweep.json, report.txt, sweep.png"
+              + (f", {html}" if html else "") + (f" ({len(done)} points reused)" if done else ""), file=sys.stderr)
     return 0
 
 
 def run_target(args) -> int:
     from ..api import case_from_dict, read_case_table
-    from ..records import TARGET_SCHEMA, to_jsonable
-    from ..report.sweep import format_target, target_line
-    from ..studies.sweep import goal_seek
     from .main import UsageError
+    from .output import prepare_output
 
     if not os.path.isfile(args.case):
         raise UsageError(f"case file '{args.case}' not found")
@@ -162,10 +174,16 @@ def run_target(args) -> int:
         lo, hi = 0.5 * params[args.vary], 1.5 * params[args.vary]
     if lo == hi:
         raise UsageError("--bounds must span a range")
-    if args.out:
-        from .output import check_out_dir
 
-        check_out_dir(args.out, args.force)
+    with prepare_output(args.out, force=args.force, command="target", files=("target.json", "report.txt")) as out:
+        return _target_in(out, args, table, case, lo, hi)
+
+
+def _target_in(out, args, table, case, lo: float, hi: float) -> int:
+    from ..records import TARGET_SCHEMA, to_jsonable
+    from ..report.sweep import format_target, target_line
+    from ..studies.sweep import goal_seek
+
     units = review_out.output_units(args, case.units)
     bar = review_out.Progress("target", unit="solve")
     try:
@@ -179,10 +197,7 @@ def run_target(args) -> int:
     data = {"schema": TARGET_SCHEMA, "case": args.case, **to_jsonable(t), "units": {"peak": stress}}
     text = format_target(t, stress)
     print(json.dumps(data, indent=2) if args.json else text)
-    if args.out:
-        from ..report.files import write_json, write_text
-        from .output import write_out_dir
-
-        write_out_dir(args.out, {"target.json": lambda p: write_json(p, data),
-                                 "report.txt": lambda p: write_text(p, text + "\n")})
+    if out:
+        out.write_json("target.json", data)
+        out.write_text("report.txt", text + "\n")
     return 0 if t.reached else 2

@@ -5,26 +5,23 @@ Formats numbers computed in :mod:`fekt.studies.sweep`; computes none (the plot o
 
 from __future__ import annotations
 
-import json
 import math
-import os
 from collections.abc import Mapping, Sequence
 
 from ..studies.sweep import COLUMNS, PointResult
-from .files import write_text
 from .text import num, table
 
 
 class SweepFiles:
-    """``points.jsonl`` (one JSON object per finished point, appended and flushed as it finishes) and
-    ``sweep.csv`` (rewritten atomically from it); the JSONL is what ``--resume`` reads.
+    """The CSV of a sweep (``sweep.csv``); the points themselves are kept, one JSON line per finished
+    point, by the resume file (:mod:`fekt.report.resume`).
 
     The CSV names a unit in every header: ``[-]`` for Kt values and bands, the stress unit of the peak
     stress, ``[s]`` for times, and ``[case: mm, N]`` for parameters (the case file's numbers, whose
     meaning -- length, ratio, force -- only the case file knows). After the varied parameters come the
     case's other parameters at each point (``parameters``: their names), then both Kt bases with
-    their bands. ``shown`` converts the points for the CSV (e.g. to other output units); the JSONL keeps
-    the case's units."""
+    their bands. ``shown`` converts the points for the CSV (e.g. to other output units); the resume file
+    keeps the case's units."""
 
     def __init__(self, folder: str, names: Sequence[str], *, parameters: Sequence[str] = (), stress_unit: str = "",
                  case_units: str = "", shown=None):
@@ -34,8 +31,6 @@ class SweepFiles:
         self.stress_unit = stress_unit or "case stress unit"
         self.case_units = case_units or "case units"
         self.shown = shown
-        self.jsonl = os.path.join(folder, "points.jsonl")
-        self.csv = os.path.join(folder, "sweep.csv")
 
     def headers(self) -> list[str]:
         units = {"kt_net": "-", "kt_net_band": "-", "kt_gross": "-", "kt_gross_band": "-", "chart_kt": "-",
@@ -44,48 +39,23 @@ class SweepFiles:
                  *(f"{n} [case: {self.case_units}]" for n in self.others)]
                 + [f"{c} [{units[c]}]" if c in units else c for c in COLUMNS[1:]])
 
-    def finished(self, points: Sequence[dict[str, float]]) -> dict[int, PointResult]:
-        """Points already in the folder whose parameter values match this sweep's."""
-        done: dict[int, PointResult] = {}
-        if not os.path.exists(self.jsonl):
-            return done
-        with open(self.jsonl, encoding="utf-8") as fh:
-            for line in fh:
-                line = line.strip()
-                if not line:
-                    continue
-                try:
-                    d = json.loads(line)
-                except json.JSONDecodeError:
-                    continue  # a line cut short by an interrupt: that point is computed again
-                i = d.get("index")
-                if isinstance(i, int) and 0 <= i < len(points) and _same(d.get("values", {}), points[i]):
-                    done[i] = PointResult.from_json(d)
-        return done
-
-    def append(self, r: PointResult) -> None:
-        with open(self.jsonl, "a", encoding="utf-8") as fh:
-            fh.write(json.dumps(r.to_json(), allow_nan=False) + "\n")
-            fh.flush()
-            os.fsync(fh.fileno())
-
-    def write_csv(self, results: Sequence[PointResult]) -> None:
+    def write_csv(self, results: Sequence[PointResult], path: str) -> None:
+        """Write the CSV of ``results`` to ``path`` (the caller makes it atomic)."""
         import csv
-        import io
 
-        buf = io.StringIO()
-        w = csv.writer(buf)
-        w.writerow(self.headers())
         shown = self.shown(list(results)) if self.shown is not None else results
-        for r in sorted(shown, key=lambda r: r.index):
-            d = r.to_json()
-            w.writerow([r.index, *(repr(r.values[n]) for n in self.names),
-                        *(repr(r.parameters[n]) if n in r.parameters else "" for n in self.others),
-                        *("" if d[c] is None else d[c] for c in COLUMNS[1:])])
-        write_text(self.csv, buf.getvalue())
+        with open(path, "w", encoding="utf-8", newline="") as fh:
+            w = csv.writer(fh)
+            w.writerow(self.headers())
+            for r in sorted(shown, key=lambda r: r.index):
+                d = r.to_json()
+                w.writerow([r.index, *(repr(r.values[n]) for n in self.names),
+                            *(repr(r.parameters[n]) if n in r.parameters else "" for n in self.others),
+                            *("" if d[c] is None else d[c] for c in COLUMNS[1:])])
 
 
-def _same(a: Mapping[str, float], b: Mapping[str, float]) -> bool:
+def same_values(a: Mapping[str, float], b: Mapping[str, float]) -> bool:
+    """Whether two points have the same parameter values (to rounding)."""
     return set(a) == set(b) and all(math.isclose(a[k], b[k], rel_tol=1e-12, abs_tol=1e-15) for k in b)
 
 

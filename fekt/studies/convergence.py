@@ -23,7 +23,6 @@ import dataclasses
 import math
 import time
 from collections.abc import Callable, Sequence
-from concurrent.futures import ProcessPoolExecutor
 from dataclasses import dataclass
 
 from ..case.schema import Case, MeshSpec
@@ -31,6 +30,7 @@ from ..errors import InputError
 from ..kinds import EquilibriumMode, FeatureKind, Verdict
 from ..pipeline import run
 from ..records import STUDY_SCHEMA, Band, EstimateFacts, Result, to_jsonable
+from .executors import process_pool
 from .gci import FS_NON_MONOTONE, ConvergenceEstimate, estimate
 
 #: formal order of the peak stress for quadratic elements (docs/references.md, grid convergence)
@@ -151,7 +151,7 @@ def run_case_levels(case: Case, specs: Sequence[MeshSpec], *, jobs: int = 1,
             if progress:
                 progress(i, levels[i])
     else:
-        with ProcessPoolExecutor(max_workers=jobs) as pool:
+        with process_pool(jobs) as pool:
             futs = [pool.submit(_case_level, case, s, hs[i], eq[i]) for i, s in enumerate(specs)]
             for i, f in enumerate(futs):
                 levels[i], results[i] = f.result()

@@ -153,17 +153,10 @@ def _serial(tasks, submit_args):
 
 
 def _pool(tasks, submit_args, workers: int):
-    from concurrent.futures import ProcessPoolExecutor, as_completed
+    from .executors import imap_unordered, process_pool
 
-    with ProcessPoolExecutor(max_workers=workers) as pool:
-        futs = [pool.submit(run_point, *submit_args(t)) for t in tasks]
-        try:
-            for f in as_completed(futs):
-                yield f.result()
-        except BaseException:
-            for f in futs:
-                f.cancel()
-            raise
+    with process_pool(workers) as pool:
+        yield from imap_unordered(pool, run_point, (submit_args(t) for t in tasks))
 
 
 def _dask(tasks, submit_args, scheduler):
