@@ -82,6 +82,7 @@ def run(case: Case, *, equilibrium: EquilibriumMode = EquilibriumMode.FAIL) -> S
     t0 = time.perf_counter()
     model = model_of(case)
     part = build_part(case.part)
+    model.validate(part)
     applied = apply_loads(case, part)
     t1 = time.perf_counter()
     pmesh = mesh_part(part, case.mesh)

@@ -40,13 +40,10 @@ NOT_RESEMBLING = "resembles no chart"
 
 
 def load_kind(result: Result) -> str | None:
-    """'tension' or 'bending' when the load is one of them alone, else None (combined load)."""
+    """'tension', 'bending' or 'torsion' when the load is one of them alone, else None (combined load)."""
     quantities = {c.quantity for c in result.load.components if c.magnitude != 0}
-    if quantities == {"force"}:
-        return "tension"
-    if quantities == {"moment"}:
-        return "bending"
-    return None
+    return {frozenset({"force"}): "tension", frozenset({"moment"}): "bending",
+            frozenset({"torque"}): "torsion"}.get(frozenset(quantities))
 
 
 def _compare(kind: str, fit: ChartFit, dims: dict, fe_net: float | None, fe_gross: float | None) -> ChartCheck:
