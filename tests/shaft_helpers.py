@@ -33,8 +33,8 @@ class Solved:
 def solve_part(spec: PartSpec, load: ShaftEndsSpec, material: Material = Material(), mesh: MeshSpec = MeshSpec()
                ) -> Solved:
     """Build, check, mesh and solve a shaft part under one load (every component on its own)."""
+    SHAFT.validate(spec)
     part = build_part(spec)
-    SHAFT.validate(part)
     applied = load.apply(part, SHAFT, 1.0)
     pm = mesh_part(part, mesh)
     sol = solve(pm, SHAFT, material.E, material.nu, applied.components)

@@ -46,7 +46,10 @@ from dataclasses import dataclass
 import numpy as np
 from skfem import BilinearForm, ElementTriP1, ElementTriP2, ElementVector, LinearForm, MeshTri2, asm
 
+from ..case.schema import PartSpec
 from ..errors import GeometryError
+from ..families import expand_family
+from ..geometry.build import build_part, cutout_loop
 from ..geometry.model import LINE, PartGeometry
 from ..kinds import LoopKind
 from .base import Model, Resultants, SectionProps, Stress
@@ -71,6 +74,12 @@ def _p2(mesh):
 def _axis_tol(x: np.ndarray) -> float:
     x = np.asarray(x)
     return AXIS_TOLERANCE * float(np.max(np.abs(x))) if x.size else 0.0
+
+
+def _values(field) -> np.ndarray:
+    """Values of a solved field: a scikit-fem DiscreteField is itself the array of values; other fields
+    (fekt.post.fields.PointField) carry them in ``value``."""
+    return np.asarray(field) if isinstance(field, np.ndarray) else np.asarray(field.value)
 
 
 def over_r(f: np.ndarray, dfdr: np.ndarray, r: np.ndarray, tol: float) -> np.ndarray:
@@ -130,8 +139,8 @@ class AxialOperator:
         def form(u, v, w):
             r = w.x[1]
             gu, gv = u.grad, v.grad
-            ezu, eru, ehu = gu[0, 0], gu[1, 1], u.value[1] / r
-            ezv, erv, ehv = gv[0, 0], gv[1, 1], v.value[1] / r
+            ezu, eru, ehu = gu[0, 0], gu[1, 1], u[1] / r
+            ezv, erv, ehv = gv[0, 0], gv[1, 1], v[1] / r
             gzu, gzv = gu[0, 1] + gu[1, 0], gv[0, 1] + gv[1, 0]
             tru, trv = ezu + eru + ehu, ezv + erv + ehv
             return (lam * tru * trv + 2.0 * mu * (ezu * ezv + eru * erv + ehu * ehv) + mu * gzu * gzv) * r
@@ -142,7 +151,7 @@ class AxialOperator:
         @LinearForm
         def form(v, w):
             tx, ty = traction(w.x, w.n)
-            return (tx * v.value[0] + ty * v.value[1]) * w.x[1]
+            return (tx * v[0] + ty * v[1]) * w.x[1]
 
         return asm(form, facet_basis)
 
@@ -158,7 +167,7 @@ class AxialOperator:
     def stress(self, field, x, E: float, nu: float) -> Stress:
         lam, mu = lame_3d(E, nu)
         x = np.asarray(x)
-        value, grad = np.asarray(field.value), np.asarray(field.grad)
+        value, grad = _values(field), np.asarray(field.grad)
         ez, er = grad[0, 0], grad[1, 1]
         eh = over_r(value[1], er, x[1], _axis_tol(x))
         tr = ez + er + eh
@@ -232,7 +241,7 @@ class BendingOperator:
         @BilinearForm
         def form(u, v, w):
             r = w.x[1]
-            a, b = _harmonic1_strains(u.value, u.grad, r), _harmonic1_strains(v.value, v.grad, r)
+            a, b = _harmonic1_strains(u, u.grad, r), _harmonic1_strains(v, v.grad, r)
             tra, trb = a[0] + a[1] + a[2], b[0] + b[1] + b[2]
             normal = a[0] * b[0] + a[1] * b[1] + a[2] * b[2]
             shear = a[3] * b[3] + a[4] * b[4] + a[5] * b[5]
@@ -244,7 +253,7 @@ class BendingOperator:
         @LinearForm
         def form(v, w):
             tx, ty, th = traction(w.x, w.n)
-            vz, vs, vd = v.value[0], v.value[1], v.value[2]
+            vz, vs, vd = v[0], v[1], v[2]
             return (tx * vz + ty * 0.5 * (vs + vd) + th * 0.5 * (vs - vd)) * w.x[1]
 
         return asm(form, facet_basis)
@@ -265,7 +274,7 @@ class BendingOperator:
     def stress(self, field, x, E: float, nu: float) -> Stress:
         lam, mu = lame_3d(E, nu)
         x = np.asarray(x)
-        e = _harmonic1_strains(np.asarray(field.value), np.asarray(field.grad), x[1], _axis_tol(x))
+        e = _harmonic1_strains(_values(field), np.asarray(field.grad), x[1], _axis_tol(x))
         tr = e[0] + e[1] + e[2]
         # e = (eps_zz, eps_rr, eps_hh, gamma_zr, gamma_z-theta, gamma_r-theta)
         return Stress(lam * tr + 2 * mu * e[0], lam * tr + 2 * mu * e[1], lam * tr + 2 * mu * e[2],
@@ -351,14 +360,32 @@ def _fmt(p) -> str:
     return f"({p[0]:.6g}, {p[1]:.6g})"
 
 
-def check_shaft_part(part: PartGeometry) -> None:
-    """The rules a meridian section must follow (each broken rule has its own message).
+def check_shaft_part(spec: PartSpec) -> None:
+    """The rules a shaft's part description must follow (each broken rule has its own message).
 
+    Called with the case's part before anything else is built (``Model.check_part``):
+
+    * no cut-out reaches the axis (a cavity on the axis would need axis conditions on its boundary;
+      checked first, because the general geometry check would only say that it touches the outline);
     * no point of any loop below the axis (y < 0): the outline would cross the axis;
     * the outline has a straight edge on y = 0 (the axis edge), in one piece, every piece named so that
-      loads can leave it out of the peak search;
-    * no cut-out reaches the axis (a cavity on the axis would need axis conditions on its boundary).
+      loads can leave it out of the peak search.
     """
+    spec = expand_family(spec)
+    tol = 1e-9 * max([abs(v.x) + abs(v.y) for v in spec.outline] + [1.0])
+    for k, c in enumerate(spec.cutouts):
+        pts = cutout_loop(c, k).polygon_points()
+        j = int(np.argmin(pts[1]))
+        if pts[1, j] <= tol:
+            raise GeometryError(f"cut-out '{c.name}' touches the axis at {_fmt(pts[:, j])}",
+                                item=f"part.cutouts[{k}]",
+                                hint="a cut-out is a ring-shaped cavity around the axis and must stay clear of "
+                                     "it; draw a cavity on the axis as part of the outline")
+    check_meridian(build_part(spec))
+
+
+def check_meridian(part: PartGeometry) -> None:
+    """The rules of :func:`check_shaft_part` on a built part."""
     tol = _tol(part)
     for loop in part.loops:
         pts = loop.polygon_points()
@@ -375,8 +402,7 @@ def check_shaft_part(part: PartGeometry) -> None:
             k = int(np.argmin(pts[1]))
             raise GeometryError(f"cut-out '{loop.name}' touches the axis at {_fmt(pts[:, k])}",
                                 item="part.cutouts",
-                                hint="a cut-out is a ring-shaped cavity around the axis and must stay clear of "
-                                     "it; draw a cavity on the axis as part of the outline")
+                                hint="a cut-out is a ring-shaped cavity around the axis and must stay clear of it")
     segs = part.outline.segments
     on_axis = [i for i, s in enumerate(segs) if abs(s.start[1]) <= tol and abs(s.end[1]) <= tol]
     for i in on_axis:

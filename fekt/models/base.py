@@ -148,15 +148,16 @@ class Model:
     #: nominal shear stress of resultants at a point of a section, (resultants, props, y) -> tau; None
     #: where the model carries no torque (plane models)
     shear_nominal: Callable[[Resultants, SectionProps, float], float] | None = None
-    #: model-specific rules for the built part (e.g. a shaft's outline must lie above its axis), raising
-    #: GeometryError; None where the model takes any valid planar part
+    #: model-specific rules for the case's part description (a PartSpec; e.g. a shaft's outline must lie
+    #: above its axis), raising GeometryError; called before the part is built; None where the model
+    #: takes any valid planar part
     check_part: Callable[[Any], None] | None = None
 
     def operator(self, name: str | None = None) -> Operator:
         return self.operators[name or self.default_operator]
 
     def validate(self, part: Any) -> None:
-        """Apply the model's own rules to a built part (:attr:`check_part`); nothing when it has none."""
+        """Apply the model's own rules to a part description (:attr:`check_part`); nothing when it has none."""
         if self.check_part is not None:
             self.check_part(part)
 
