@@ -113,6 +113,11 @@ def circumradius(p1, p2, p3) -> float:
 # --- chart points of the shaft families ------------------------------------------------------------------
 
 LOAD_OF = {"tension": "force", "bending": "moment", "torsion": "torque"}
+
+#: round-shaft shoulder in tension: converged FE lies above the recalled fit (verification notes 2.6, from
+#: memory) by more than its 5 % band at every grid point; documented in docs/known-discrepancies.md
+DISCREPANT_SHOULDER_TENSION = frozenset(
+    ("shaft_shoulder", "tension", f"D/d={q}, r/d={s}") for q in (1.2, 1.5, 2.0) for s in (0.05, 0.1, 0.2))
 MAGNITUDE = {"force": 1000.0, "moment": 1.0e5, "torque": 1.0e5}
 
 
