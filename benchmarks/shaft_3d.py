@@ -3,10 +3,14 @@
 The same stepped shaft (diameters D and d, shoulder fillet r) is built as a solid with gmsh (OpenCASCADE
 cylinders, fused and filleted), meshed with quadratic tetrahedra graded towards the fillet, and solved with
 scikit-fem's quadratic tetrahedra on the curved quadratic mesh under the same Saint-Venant end tractions as
-the axisymmetric model: bending (sigma_xx = M y / I), torsion (tau = T r / J) and tension. Kt is the largest
-principal stress at facet quadrature points on the fillet surface over the net nominal stress. Two meshes
-(fillet element size halved) give the 3D model's own convergence band (two-grid GCI, Fs = 3, formal order
-2; Roache 1994); the axisymmetric result (fekt, 32 elements per radius) must lie within it.
+the axisymmetric model: bending (sigma_xx = M y / I), torsion (tau = T r / J) and tension. Kt is the peak
+surface stress on the fillet (tangential stress for tension and bending, tangential-hoop shear for torsion,
+averaged around the circumference at each position along the fillet arc: the raw maximum over the
+quadrature points is biased upwards by the element-to-element scatter of 3D stresses) over the net
+nominal stress. Two meshes (every element size halved) give the 3D model's own convergence band
+(two-grid GCI, Fs = 3, formal order 2, ratio 2: |fine - coarse|; Roache 1994); the axisymmetric result
+(fekt, 32 elements per radius) must lie within it. The quarter y >= 0, z >= 0 is modelled with symmetry
+conditions; the linear systems are solved by multigrid-preconditioned CG (pyamg).
 
 Run as a script: prints and writes benchmarks/SHAFT_3D.md. Also imported by benchmarks/shafts.py.
 """
@@ -209,6 +213,48 @@ def rigid_modes(basis, free: np.ndarray) -> np.ndarray:
     return modes[free]
 
 
+#: width of the bins along the fillet arc (degrees of the arc about its centre) in which the surface stress
+#: is averaged around the circumference (our own choice: a few samples per element along the arc)
+BIN_DEGREES = 1.5
+#: bending: only samples within this angle of the most stressed meridian are averaged (their tangential
+#: stress divided by cos(theta) estimates the amplitude; our own choice)
+BENDING_SECTOR_DEGREES = 20.0
+
+
+def surface_peaks(sig: np.ndarray, x: np.ndarray, n: np.ndarray, load: str) -> tuple[float, float, float]:
+    """(largest principal stress over the fillet samples, peak of the circumferentially averaged surface
+    stress, largest deviation of the samples of the peak bin from their average). The exact 3D field is axisymmetric in tension and torsion and varies as cos(theta) in bending,
+    so the surface stress at one position along the fillet arc is averaged over the circumference (bending:
+    the tangential stress / cos(theta) near theta = 0), which removes the element-to-element scatter that
+    biases the raw maximum upwards; the peak is the largest bin average along the arc."""
+    S = np.moveaxis(sig.reshape(3, 3, -1), -1, 0)  # (m, 3, 3)
+    raw = float(np.linalg.eigvalsh(S)[:, -1].max())
+    X, N = x.reshape(3, -1), n.reshape(3, -1)
+    rr = np.hypot(X[1], X[2])
+    hoop = np.vstack([np.zeros_like(rr), -X[2] / rr, X[1] / rr])
+    tang = np.cross(N.T, hoop.T).T  # the meridian tangent (sign irrelevant below)
+    stt = np.einsum("im,mij,jm->m", tang, S, tang)
+    sth = np.einsum("im,mij,jm->m", tang, S, hoop)
+    theta = np.arctan2(X[2], X[1])  # 0 on the +y meridian
+    psi = np.degrees(np.arctan2(rr - (d / 2 + r), X[0] - (L + r)))  # position along the fillet arc
+    if load == "torque":
+        value, keep = np.abs(sth), np.ones_like(rr, dtype=bool)
+    elif load == "moment":
+        keep = np.degrees(theta) < BENDING_SECTOR_DEGREES
+        value = stt / np.cos(theta)
+    else:
+        value, keep = stt, np.ones_like(rr, dtype=bool)
+    bins = np.floor(psi[keep] / BIN_DEGREES).astype(int)
+    sums = np.bincount(bins - bins.min(), weights=value[keep])
+    counts = np.bincount(bins - bins.min())
+    ok = counts >= 5
+    means = np.where(ok, sums / np.maximum(counts, 1), -np.inf)
+    top = int(np.argmax(means))
+    in_top = (bins - bins.min()) == top
+    scatter = float(np.max(np.abs(value[keep][in_top] - means[top])))
+    return raw, float(means[top]), scatter
+
+
 def solve_3d(m: Mesh3D) -> dict[str, float]:
     """Kt (largest principal stress on the fillet over the net nominal stress) per load."""
     mesh = m.mesh
@@ -258,6 +304,8 @@ def solve_3d(m: Mesh3D) -> dict[str, float]:
         eps = 0.5 * (g + g.transpose(1, 0, 2, 3))
         tr = eps[0, 0] + eps[1, 1] + eps[2, 2]
         sig = 2 * mu * eps + lam * tr * np.eye(3)[:, :, None, None]
-        s1 = np.linalg.eigvalsh(np.moveaxis(sig.reshape(3, 3, -1), -1, 0))[:, -1]
-        out[load] = float(s1.max()) / nominal[load]
+        raw, peak, scatter = surface_peaks(sig, np.asarray(fb.global_coordinates()), np.asarray(fb.normals), load)
+        out[load] = peak / nominal[load]
+        out[f"{load}_raw_max"] = raw / nominal[load]
+        out[f"{load}_scatter"] = scatter / nominal[load]
     return out
