@@ -49,6 +49,7 @@ class Measure(StrEnum):
     TANGENTIAL = "tangential"
     MAX_PRINCIPAL = "max_principal"
     MIN_PRINCIPAL = "min_principal"
+    PRINCIPAL = "principal"
     VON_MISES = "von_mises"
 
 

@@ -15,14 +15,16 @@ from .errors import GeometryError, SolveError
 from .geometry.build import build_part
 from .geometry.model import PartGeometry
 from .kinds import EquilibriumMode, Measure
+from .loads import combine
 from .loads.base import Applied
 from .mesh.build import PartMesh, mesh_part
 from .models import REGISTRY as MODELS
 from .post.evaluate import evaluate_peaks
 from .post.fields import BoundarySamples, boundary_samples
-from .records import (ComponentFacts, EndFacts, LoadFacts, MeshFacts, Provenance, Result, Timings,
-                      UnitsRecord)
-from .solver.linear import Solution, check_reactions, reaction_ratio, solve
+from .records import (ComponentFacts, ContactRecord, EndFacts, LoadCaseRecord, LoadFacts, MeshFacts, Provenance,
+                      Result, Timings, UnitsRecord)
+from .solver.cases import solve_cases
+from .solver.linear import Solution, reaction_ratio, solve
 
 CAUTION = ("Linear-elastic, 2D idealisation of the part as described; peak stresses assume small strains "
            "and no yielding. Check the numbers against the applicable design codes and licensed "
@@ -66,11 +68,36 @@ def model_of(case: Case):
 
 
 def apply_loads(case: Case, part: PartGeometry) -> Applied:
-    """The case's load on the built part (one load per case in this version)."""
+    """The case's loads and supports on the built part, combined (:func:`fekt.loads.combine`)."""
     model = model_of(case)
-    if len(case.loads) != 1:
-        raise GeometryError(f"the case has {len(case.loads)} loads; give exactly one [load]", item="load")
-    return case.loads[0].apply(part, model, case.part.thickness)
+    loads = []
+    for spec in case.loads:
+        a = spec.apply(part, model, case.part.thickness)
+        if len(case.loads) > 1:  # components named after their load, so that two loads cannot clash
+            a = dataclasses.replace(a, components=tuple(
+                c if c.name == a.name else dataclasses.replace(c, name=f"{a.name}/{c.name}") for c in a.components))
+        loads.append(a)
+    supports = [sp.apply(part, model) for sp in case.supports]
+    return combine(loads, supports, case.nominal.axis)
+
+
+def case_list(case: Case) -> list[tuple[str, dict[str, float]]]:
+    """The load cases as (name, load name -> factor); one unnamed case of every load at 1 when the file
+    names none."""
+    if not case.load_cases:
+        return [("", {ld.name: 1.0 for ld in case.loads})]
+    return [(lc.name, dict(lc.factors)) for lc in case.load_cases]
+
+
+def peak_measure(case: Case, applied: Applied) -> Measure:
+    """The measure the case's peaks are found by: the case's own, or for "auto" the tangential stress
+    (what Kt charts use), or the signed principal stress when a load component is a torque (its
+    tangential stress is zero)."""
+    if case.measure != "auto":
+        return Measure(case.measure)
+    if any(c.quantity == "torque" and c.magnitude != 0 for c in applied.components):
+        return Measure.PRINCIPAL
+    return Measure.TANGENTIAL
 
 
 def run(case: Case, *, equilibrium: EquilibriumMode = EquilibriumMode.FAIL) -> Solved:
@@ -91,25 +118,38 @@ def run(case: Case, *, equilibrium: EquilibriumMode = EquilibriumMode.FAIL) -> S
     t1 = time.perf_counter()
     pmesh = mesh_part(part, case.mesh)
     t2 = time.perf_counter()
-    sol = solve(pmesh, model, case.material.E, case.material.nu, applied.components)
-    check_reactions(sol)
+    sol = solve(pmesh, model, case.material.E, case.material.nu, applied.components, applied.supports)
+    tc = time.perf_counter()
+    sol, cases = solve_cases(sol, pmesh, applied, case_list(case))
     t3 = time.perf_counter()
+    contact_s = t3 - tc
     samples = boundary_samples(sol, pmesh, part)
-    try:
-        found = evaluate_peaks(samples, part, pmesh, sol, applied, case.part.thickness, equilibrium=equilibrium,
-                               measure=Measure(case.measure))
-    except SolveError as exc:
-        if not pmesh.warnings:
-            raise
-        # the mesh stage usually saw the cause (a thin ligament): say so with the failure
-        raise SolveError(f"{exc}; the mesh stage warned: " + "; ".join(pmesh.warnings)) from exc
+    measure = peak_measure(case, applied)
+    stated = (case.nominal.stress, case.nominal.feature) if case.nominal.stress is not None else None
+    found = []
+    for cs in cases:
+        try:
+            found.append(evaluate_peaks(samples, part, pmesh, sol, cs.applied, case.part.thickness,
+                                        equilibrium=equilibrium, measure=measure, factors=cs.factors,
+                                        stated=stated))
+        except SolveError as exc:
+            if not pmesh.warnings:
+                raise
+            # the mesh stage usually saw the cause (a thin ligament): say so with the failure
+            raise SolveError(f"{exc}; the mesh stage warned: " + "; ".join(pmesh.warnings)) from exc
     t4 = time.perf_counter()
-    warnings = list(part.warnings) + list(pmesh.warnings) + list(found.warnings)
+    warnings = list(part.warnings) + list(pmesh.warnings)
+    for fs in found:
+        warnings += [w for w in fs.warnings if w not in warnings]
+    records = tuple(LoadCaseRecord(cs.name, cs.load_factors, fs.peaks, fs.most_compressive,
+                                   tuple(ContactRecord(**dataclasses.asdict(c)) for c in cs.contacts))
+                    for cs, fs in zip(cases, found))
     units = case.units
     result = Result(
         case_name=case.name, source=case.source, demo=case.demo,
         units=UnitsRecord(units.length, units.force, units.stress, units.moment),
-        model=case.part.model, model_label=model.label, thickness=case.part.thickness,
+        model=case.part.model, model_label=model.label,
+        thickness=case.part.thickness if model.has_thickness else None,
         material={"E": case.material.E, "nu": case.material.nu},
         load=LoadFacts(
             axis=applied.axis, force=sum(c.magnitude for c in applied.components if c.quantity == "force"),
@@ -120,10 +160,12 @@ def run(case: Case, *, equilibrium: EquilibriumMode = EquilibriumMode.FAIL) -> S
                        feature_sizes=dict(pmesh.feature_sizes), elements_per_radius=case.mesh.elements_per_radius,
                        refine=case.mesh.refine, area=pmesh.area, solver=sol.solver),
         timings=Timings(geometry_s=t1 - t0, mesh_s=t2 - t1, assemble_s=sol.seconds_assemble,
-                        solve_s=sol.seconds_solve, post_s=t4 - t3, total_s=t4 - t0),
-        peaks=found.peaks, most_compressive=found.most_compressive, warnings=tuple(warnings),
-        notes=applied.notes, caution=CAUTION, measure=str(case.measure),
+                        solve_s=sol.seconds_solve + contact_s, post_s=t4 - t3, total_s=t4 - t0),
+        peaks=found[0].peaks, most_compressive=found[0].most_compressive, warnings=tuple(warnings),
+        notes=applied.notes, caution=CAUTION, measure=str(measure), coordinates=model.coordinates,
+        nominal_rule=model.nominal_label,
         provenance=Provenance(versions=_versions(), case_sha256_16=case_hash(case),
-                              max_reaction_over_load=reaction_ratio(sol)),
+                              max_reaction_over_load=max(reaction_ratio(sol, cs.factors) for cs in cases)),
+        load_cases=records if case.load_cases else (), contacts=records[0].contacts,
     )
-    return Solved(case, part, pmesh, sol, applied, samples, result)
+    return Solved(case, part, pmesh, sol, cases[0].applied, samples, result)

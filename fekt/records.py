@@ -157,6 +157,17 @@ class StressPeak:
     band: Band | None = None
     chart: ChartCheck | NoChart | None = None
     component_charts: tuple[ChartCheck | NoChart, ...] = ()
+    #: torque on the net section (shafts; 0 for plates)
+    T: float = 0.0
+    #: angle around the shaft's axis where the peak occurs (degrees from the drawn meridian), when the
+    #: load case's stress varies around the axis (bending with other loads); None otherwise
+    theta: float | None = None
+    #: non-empty for a load-introduction peak (where a load or support enters the part): says which; such
+    #: peaks are listed apart from notch peaks and never taken as "the" Kt unless asked for by name
+    introduction: str = ""
+    #: how the nominal stress was found when not by net-section statics (stated in the case, a remote
+    #: stress), or why there is none (supports on both sides of the section); empty: statics
+    nominal_source: str = ""
 
     @property
     def compressive(self) -> bool:
@@ -265,6 +276,34 @@ class FamilyCheck:
 
 
 @dataclass(frozen=True)
+class ContactRecord:
+    """A pin's contact in one load case: the arc in contact (degrees either side of the force direction,
+    from the outermost nodes in contact), the nodes in contact, the active-set iterations, the largest
+    overlap left (length) and the pin's displacement."""
+
+    load: str
+    case: str
+    arc_from: float
+    arc_to: float
+    nodes: int
+    iterations: int
+    overlap: float
+    pin_displacement: tuple[float, float]
+
+
+@dataclass(frozen=True)
+class LoadCaseRecord:
+    """One load case of a case file: its factors (load name -> factor), its ranked stress peaks, its most
+    compressive boundary stress and the contact of its pins."""
+
+    name: str
+    factors: tuple[tuple[str, float], ...]
+    peaks: tuple[StressPeak, ...]
+    most_compressive: Compressive
+    contacts: tuple[ContactRecord, ...] = ()
+
+
+@dataclass(frozen=True)
 class Result:
     """Everything ``fekt solve`` reports; :func:`to_jsonable` gives the JSON content."""
 
@@ -274,7 +313,7 @@ class Result:
     units: UnitsRecord
     model: str
     model_label: str
-    thickness: float
+    thickness: float | None  # None for a model without one (a shaft)
     material: dict[str, float]
     load: LoadFacts
     mesh: MeshFacts
@@ -288,6 +327,14 @@ class Result:
     measure: str = "tangential"
     estimate: EstimateFacts | None = None
     family_check: FamilyCheck | None = None
+    #: the names of the mesh-plane coordinates ((x, y) for plates, (z, r) for shafts)
+    coordinates: tuple[str, str] = ("x", "y")
+    #: how the nominal stress of the load case is formed (the model's words, for reports)
+    nominal_rule: str = ""
+    #: the load cases when the case file names them (``peaks`` are then those of the first); else empty
+    load_cases: tuple[LoadCaseRecord, ...] = ()
+    #: the pins' contact (the first load case's, or the only one's)
+    contacts: tuple[ContactRecord, ...] = ()
     schema: str = field(default=RESULT_SCHEMA)
 
     def to_dict(self) -> dict:

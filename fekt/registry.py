@@ -11,6 +11,7 @@ from types import MappingProxyType
 from .case.fields import Catalogue, ModelInfo
 from .families import REGISTRY as FAMILIES
 from .loads import REGISTRY as LOADS
+from .loads import SUPPORTS
 from .models import REGISTRY as MODELS
 
 CATALOGUE = Catalogue(
@@ -18,6 +19,7 @@ CATALOGUE = Catalogue(
                               for m in MODELS.values()}),
     loads=LOADS,
     families=FAMILIES,
+    supports=SUPPORTS,
 )
 
 __all__ = ["CATALOGUE", "FAMILIES", "LOADS", "MODELS"]

@@ -55,7 +55,7 @@ def strip_reference():
 def test_strip_two_grid_band_contains_fine_reference(strip_reference):
     case = strip_case(d=12.0)
     r = run(case).result
-    _, bands = two_grid_bands(case, r)
+    _, bands, _ = two_grid_bands(case, r)
     hole = [h for h in r.peaks if h.feature == "cut-out 'hole'" and h.peak > 0]  # the tensile peaks
     for h in hole:
         band = bands[h.rank].kt_gross

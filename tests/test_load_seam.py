@@ -51,7 +51,7 @@ class Spec:
         area = base.ends[0].section.area
         comp = Component("stress", self.name, "force", s * area, model.default_operator,
                          (Traction(self.ends[0], trac), Traction(self.ends[1], trac)),
-                         lambda section: Resultants(N=s * area))
+                         lambda section, side=-1: Resultants(N=s * area))
         return Applied(self.name, KIND, (comp,), base.axis, base.ends, base.loaded)
 
 

@@ -13,7 +13,7 @@ from __future__ import annotations
 
 import difflib
 from collections.abc import Mapping, Sequence
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from typing import Any, Protocol
 
 from fekt.case.expr import evaluate
@@ -170,6 +170,8 @@ class LoadContext:
     params: Mapping[str, float]
     edges: tuple[str, ...]
     default_ends: tuple[str, str] | None = None
+    holes: tuple[str, ...] = ()  # names of the cut-outs
+    model: str = "plane_stress"
 
 
 @dataclass(frozen=True)
@@ -191,3 +193,4 @@ class Catalogue:
     models: Mapping[str, ModelInfo]
     loads: Mapping[str, LoadType]
     families: Mapping[str, Any]
+    supports: Mapping[str, Any] = field(default_factory=dict)  # support type -> module (parse, KEYS)

@@ -27,8 +27,10 @@ from fekt.case.schema import (
     LENGTH_UNITS,
     Case,
     CutoutSpec,
+    LoadCaseSpec,
     Material,
     MeshSpec,
+    NominalSpec,
     NotchSpec,
     PartSpec,
     Units,
@@ -43,10 +45,13 @@ _T = TypeVar("_T")
 
 BULGES = ("out", "in")
 
-_TOP_KEYS = ("case", "units", "parameters", "part", "material", "load", "mesh")
+_TOP_KEYS = ("case", "units", "parameters", "part", "material", "load", "loads", "supports", "load_cases", "nominal",
+             "mesh")
+_LOAD_CASE_KEYS = ("name", "factors")
+_NOMINAL_KEYS = ("axis", "stress", "feature")
 _CASE_KEYS = ("name", "description", "demo", "measure")
 #: the boundary stresses peaks can be found by (values of fekt.kinds.Measure)
-MEASURES = ("tangential", "max_principal", "min_principal", "von_mises")
+MEASURES = ("auto", "tangential", "principal", "max_principal", "min_principal", "von_mises")
 _UNITS_KEYS = ("length", "force", "output")
 _PART_KEYS = ("model", "thickness", "outline", "cutouts", "notches", "family", "dimensions", "dxf", "dxf_units",
               "dxf_tolerance")
@@ -143,12 +148,17 @@ def case_from_dict(data: dict, source: str, overrides: Mapping[str, float] | Non
     material = _material(root.get("material", {}), params)
     family = catalogue.families[part.family] if part.family else None
     edges = tuple(family.edges) if family else tuple(_edge_names(part.outline))
-    ctx = LoadContext(params=params, edges=edges, default_ends=tuple(family.ends) if family else None)
-    loads = (_load(F.required(root, "load", ""), ctx, catalogue, part.model),)
+    holes = tuple(family.holes) if family else tuple(c.name for c in part.cutouts)
+    ctx = LoadContext(params=params, edges=edges, default_ends=tuple(family.ends) if family else None,
+                      holes=holes, model=part.model)
+    loads = _loads(root, ctx, catalogue, part.model)
+    supports = _supports(root.get("supports", []), ctx, catalogue)
+    load_cases = _load_cases(root.get("load_cases", []), loads, params)
+    nominal = _nominal(root.get("nominal", {}), params, len(load_cases) if load_cases else 1)
     mesh = _mesh(root.get("mesh", {}), params)
     return Case(name=name, part=part, loads=loads, material=material, mesh=mesh, units=units,
                 description=description, parameters=tuple(params.items()), source=source, demo=demo,
-                measure=measure)
+                measure=measure, supports=supports, load_cases=load_cases, nominal=nominal)
 
 
 # --- [case] and [units] ------------------------------------------------------------------------------
@@ -166,7 +176,7 @@ def _case_info(raw: object, source: str) -> tuple[str, str, bool, str]:
     name = F.name(table["name"], "case.name") if "name" in table else _default_name(source)
     description = F.text(table["description"], "case.description") if "description" in table else ""
     demo = F.flag(table["demo"], "case.demo") if "demo" in table else False
-    measure = F.choice(table["measure"], MEASURES, "case.measure") if "measure" in table else "tangential"
+    measure = F.choice(table["measure"], MEASURES, "case.measure") if "measure" in table else "auto"
     return name, description, demo, measure
 
 
@@ -444,17 +454,110 @@ def _material(raw: object, params: Mapping[str, float]) -> Material:
     return Material(E=E, nu=nu)
 
 
-def _load(raw: object, ctx: LoadContext, catalogue: Catalogue, model: str) -> object:
+def _loads(root: Mapping[str, object], ctx: LoadContext, catalogue: Catalogue, model: str) -> tuple:
+    """``[load]`` (one load) or ``[[loads]]`` (several, each with its own name)."""
+    if "load" in root and "loads" in root:
+        raise CaseError("give either [load] or [[loads]], not both", item="loads",
+                        hint="[[loads]] holds several loads, each with a name")
+    if "loads" not in root:
+        return (_load(F.required(root, "load", ""), ctx, catalogue, model, "load"),)
+    raw = F.array(root["loads"], "loads")
+    if not raw:
+        raise CaseError("[[loads]] is empty", item="loads", hint="give at least one load")
+    if len(raw) > 1:
+        for i, t in enumerate(raw):
+            if isinstance(t, Mapping) and "name" not in t:
+                raise CaseError("with several loads each needs a name", item=F.path(F.path("loads", i), "name"),
+                                hint='e.g. name = "pin"; load cases and reports refer to loads by name')
+    loads = tuple(_load(t, ctx, catalogue, model, F.path("loads", i)) for i, t in enumerate(raw))
+    F.unique([ld.name for ld in loads], "loads", "load")
+    return loads
+
+
+def _supports(raw: object, ctx: LoadContext, catalogue: Catalogue) -> tuple:
+    items = F.array(raw, "supports")
+    out = []
+    for i, t in enumerate(items):
+        item = F.path("supports", i)
+        table = F.table(t, item)
+        kinds = tuple(catalogue.supports)
+        kind = F.choice(F.required(table, "type", item), kinds, F.path(item, "type"))
+        module = catalogue.supports[kind]
+        F.check_keys(table, module.KEYS, item)
+        out.append(module.parse(table, ctx, item, kind))
+    names = [s.name for s in out]
+    if len(set(names)) != len(names):
+        dup = next(n for n in names if names.count(n) > 1)
+        raise CaseError(f"two supports are named '{dup}'", item="supports", hint="give each support its own name")
+    return tuple(out)
+
+
+def _load_cases(raw: object, loads: tuple, params: Mapping[str, float]) -> tuple[LoadCaseSpec, ...]:
+    items = F.array(raw, "load_cases")
+    known = [ld.name for ld in loads]
+    out = []
+    for i, t in enumerate(items):
+        item = F.path("load_cases", i)
+        table = F.table(t, item)
+        F.check_keys(table, _LOAD_CASE_KEYS, item)
+        name = F.name(F.required(table, "name", item), F.path(item, "name"))
+        factors = F.table(F.required(table, "factors", item), F.path(item, "factors"))
+        pairs = []
+        for load, value in factors.items():
+            sub = F.path(F.path(item, "factors"), load)
+            if load not in known:
+                raise CaseError(f"the case has no load named '{load}'", item=sub,
+                                hint=F.close_match(load, known) + f"loads: {', '.join(known)}")
+            pairs.append((load, F.number(value, params, sub)))
+        if not any(v != 0 for _, v in pairs):
+            raise CaseError("every factor of the load case is zero", item=F.path(item, "factors"),
+                            hint="give at least one load a non-zero factor")
+        out.append(LoadCaseSpec(name, tuple(pairs)))
+    F.unique([c.name for c in out], "load_cases", "load case")
+    return tuple(out)
+
+
+def _nominal(raw: object, params: Mapping[str, float], n_cases: int) -> NominalSpec:
+    table = F.table(raw, "nominal")
+    F.check_keys(table, _NOMINAL_KEYS, "nominal")
+    axis = None
+    if "axis" in table:
+        value = table["axis"]
+        if isinstance(value, list):
+            if len(value) != 2:
+                raise CaseError("expected an angle in degrees or a direction [x, y]", item="nominal.axis")
+            axis = tuple(F.number(v, params, F.path("nominal.axis", j)) for j, v in enumerate(value))
+            if axis == (0.0, 0.0):
+                raise CaseError("the direction is zero", item="nominal.axis")
+        else:
+            ang = math.radians(F.number(value, params, "nominal.axis"))
+            axis = (math.cos(ang), math.sin(ang))
+    stress = None
+    if "stress" in table:
+        stress = F.number(table["stress"], params, "nominal.stress")
+        if stress == 0:
+            raise CaseError("a nominal stress of zero gives no Kt", item="nominal.stress")
+        if n_cases > 1:
+            raise CaseError("a stated nominal stress belongs to one load case; this case has several",
+                            item="nominal.stress", hint="state it in a case file with one load case")
+    feature = F.text(table["feature"], "nominal.feature") if "feature" in table else None
+    if feature is not None and stress is None:
+        raise CaseError("nominal.feature names the feature a stated nominal stress is for: give stress too",
+                        item="nominal.feature")
+    return NominalSpec(axis=axis, stress=stress, feature=feature)
+
+
+def _load(raw: object, ctx: LoadContext, catalogue: Catalogue, model: str, item: str = "load") -> object:
     """One load table: its ``type`` (the model's usual load when not given) names the load type that reads
     the rest of its keys. A load type that lists the models it applies to (``MODELS``) is refused on
     others, and a key that belongs to another load type says which one."""
-    table = F.table(raw, "load")
+    table = F.table(raw, item)
     default = catalogue.models[model].default_load
-    kind = F.choice(table["type"], tuple(catalogue.loads), "load.type") if "type" in table else default
+    kind = F.choice(table["type"], tuple(catalogue.loads), F.path(item, "type")) if "type" in table else default
     load_type = catalogue.loads[kind]
     models = getattr(load_type, "MODELS", None)
     if models and model not in models:
-        raise CaseError(f"load type '{kind}' does not apply to model '{model}'", item="load.type",
+        raise CaseError(f"load type '{kind}' does not apply to model '{model}'", item=F.path(item, "type"),
                         hint=f"'{kind}' is for model = {' or '.join(repr(m) for m in models)}; model '{model}' "
                              f"takes type = '{default}'")
     for key in table:
@@ -466,10 +569,10 @@ def _load(raw: object, ctx: LoadContext, catalogue: Catalogue, model: str) -> ob
                                                      if getattr(t, "MODELS", None) else "")
                               for k, t in ((k, catalogue.loads[k]) for k in owners))
             raise CaseError(f"'{key}' is not a load of model '{model}' (load type '{kind}' takes "
-                            f"{', '.join(k for k in load_type.KEYS if k != 'type')})", item=F.path("load", key),
+                            f"{', '.join(k for k in load_type.KEYS if k != 'type')})", item=F.path(item, key),
                             hint=f"'{key}' belongs to {where}")
-    F.check_keys(table, load_type.KEYS, "load")
-    return load_type.parse({k: v for k, v in table.items() if k != "type"}, ctx, "load")
+    F.check_keys(table, load_type.KEYS, item)
+    return load_type.parse({k: v for k, v in table.items() if k != "type"}, ctx, item)
 
 
 def _mesh(raw: object, params: Mapping[str, float]) -> MeshSpec:

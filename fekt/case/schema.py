@@ -8,7 +8,7 @@ Variants are made with :func:`dataclasses.replace`.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from typing import Protocol
+from typing import Any, Protocol
 
 from ..kinds import FeatureKind
 
@@ -160,6 +160,25 @@ class LoadSpec(Protocol):
 
 
 @dataclass(frozen=True)
+class LoadCaseSpec:
+    """A named load case: every load of the case file it includes, with its factor (the others at 0)."""
+
+    name: str
+    factors: tuple[tuple[str, float], ...]
+
+
+@dataclass(frozen=True)
+class NominalSpec:
+    """What the case states about nominal stresses: the load axis net sections are cut normal to
+    (unit vector; None: from the loads), and a nominal stress the user must match (Kt = peak / stress
+    for the named feature, or for every peak), instead of net-section statics."""
+
+    axis: tuple[float, float] | None = None
+    stress: float | None = None
+    feature: str | None = None
+
+
+@dataclass(frozen=True)
 class MeshSpec:
     """Mesh controls. ``elements_per_radius``: element size at a notch feature is its radius divided
     by this; ``size``: the largest element size (default: derived from the part); ``growth``: how fast
@@ -184,4 +203,9 @@ class Case:
     parameters: tuple[tuple[str, float], ...] = ()
     source: str = ""  # path of the case file, if any
     demo: bool = False
-    measure: str = "tangential"  # the boundary stress peaks are found by (fekt.kinds.Measure)
+    supports: tuple[Any, ...] = ()  # support records (fekt.loads.supports)
+    load_cases: tuple[LoadCaseSpec, ...] = ()  # none: one case with every load at factor 1
+    nominal: NominalSpec = field(default_factory=NominalSpec)
+    #: the boundary stress peaks are found by (fekt.kinds.Measure), or "auto": tangential, or principal
+    #: when a load has a torque (whose tangential stress is zero); see fekt.pipeline.peak_measure
+    measure: str = "auto"

@@ -98,7 +98,8 @@ def family_check(case: Case, result: Result) -> tuple[FamilyCheck, ChartCheck | 
     fam = case.part.family
     load = load_kind(result)
     dims = family_dims(case)
-    spots = [h for h in result.peaks if h.feature_kind != FeatureKind.EDGE and h.kt_net is not None and h.peak > 0]
+    spots = [h for h in result.peaks if h.feature_kind != FeatureKind.EDGE and h.kt_net is not None and h.peak > 0
+             and not h.introduction]
     if not spots:
         return FamilyCheck(fam, load, None, NoChart(NO_NOTCH_PEAK, family=fam, load=load)), None, ()
     top = max(spots, key=lambda h: h.kt_net)
@@ -129,9 +130,11 @@ def _family_component(fam, name, kind, dims, kt_net, kt_gross) -> ChartCheck | N
 
 # --- nearest chart for free-form parts --------------------------------------------------------------
 
-def nearest_charts(part: PartGeometry, result: Result) -> dict[int, tuple[ChartCheck | NoChart, tuple]]:
+def nearest_charts(part: PartGeometry, result: Result, carrying: frozenset[str] = frozenset()
+                   ) -> dict[int, tuple[ChartCheck | NoChart, tuple]]:
     """Per notch feature (its first tensile peak): the nearest chart's Kt_net beside the FE Kt_net, or why
-    there is none; for several load components, one comparison per component. Keyed by the peak's rank."""
+    there is none; for several load components, one comparison per component. Keyed by the peak's rank.
+    ``carrying``: boundaries that carry a load (a pin's hole): the open-notch charts do not apply there."""
     load = load_kind(result)
     axis = np.array(result.load.axis)
     e = transverse(axis)
@@ -141,10 +144,18 @@ def nearest_charts(part: PartGeometry, result: Result) -> dict[int, tuple[ChartC
     seen = set()
     for hs in result.peaks:
         f = feats.get(hs.feature)
-        if f is None or f.name in seen or hs.kt_net is None or hs.peak <= 0:
+        if f is None or f.name in seen or hs.kt_net is None or hs.peak <= 0 or hs.introduction:
             continue
         seen.add(f.name)
-        family, dims, why = _resemble(f, part, axis, e, poly, feats)
+        touched = {part.loops[li].name for li, _ in f.segments} | {part.segment(r).edge for r in f.segments}
+        if touched & carrying:
+            out[hs.rank] = (NoChart(NOT_RESEMBLING, "it carries a load (a pin, bolt or pressure): the charts are "
+                                    "for unloaded notches"), ())
+            continue
+        if result.model == "axisymmetric":
+            family, dims, why = _resemble_shaft(f, part, axis, poly)
+        else:
+            family, dims, why = _resemble(f, part, axis, e, poly, feats)
         if family is None:
             out[hs.rank] = (NoChart(NOT_RESEMBLING, why), ())
             continue
@@ -158,7 +169,8 @@ def nearest_charts(part: PartGeometry, result: Result) -> dict[int, tuple[ChartC
 
 
 def _nearest(family, dims, load, kt_net, kt_gross, component) -> ChartCheck | NoChart:
-    fit = primary_fit(family, load, dims, allow_low=True) if load in ("tension", "bending") else None
+    loads = ("tension", "bending", "torsion") if family in SHAFT_FAMILIES else ("tension", "bending")
+    fit = primary_fit(family, load, dims, allow_low=True) if load in loads else None
     if fit is None:
         gap = gap_for(family, load) if load in ("tension", "bending") else None
         return NoChart(NO_FIT, gap.reason if gap else "", family, load, component=component)
@@ -170,6 +182,58 @@ def _nearest(family, dims, load, kt_net, kt_gross, component) -> ChartCheck | No
 
 def _cut_width(part, axis, s, poly) -> float:
     return section_at(part, axis, s, poly).width
+
+
+#: chart families of round shafts (their dimensions are diameters; the meridian's cut widths are radii)
+SHAFT_FAMILIES = ("shaft_shoulder", "shaft_groove")
+
+
+def _step(f, part, axis, poly) -> tuple[float, float, float, float, float] | None:
+    """(narrow width, wide width, far narrow width, far wide width, net width) around a single-arc fillet of
+    at most a quarter turn; None when the feature is not one."""
+    lo, hi = feature_extent(part, f, axis)
+    net = net_section(part, f, axis, poly)
+    pad = 1e-3 * (hi - lo + 1.0)
+    w_lo = _cut_width(part, axis, lo - pad, poly)
+    w_hi = _cut_width(part, axis, hi + pad, poly)
+    reach = max(2.0 * f.radius, 0.25 * net.width)
+    narrow_far = _cut_width(part, axis, (lo - reach) if w_lo < w_hi else (hi + reach), poly)
+    wide_far = _cut_width(part, axis, (hi + reach) if w_lo < w_hi else (lo - reach), poly)
+    return min(w_lo, w_hi), max(w_lo, w_hi), narrow_far, wide_far, net.width
+
+
+def _single_arc(part, f) -> str:
+    """Why a feature is not a single circular arc of at most a quarter turn ('' when it is)."""
+    if len(f.segments) != 1 or part.segment(f.segments[0]).kind != "arc":
+        return "the feature is not a single circular arc"
+    if abs(part.segment(f.segments[0]).sweep()) > np.radians(90.0 + 1.0):
+        return "the arc turns through more than a quarter turn: not a shoulder fillet"
+    return ""
+
+
+def _resemble_shaft(f, part, axis, poly) -> tuple[str | None, dict, str]:
+    """Which round-shaft chart a feature of a meridian section resembles: a shoulder fillet between two
+    plain diameters, or a U-groove; diameters are twice the meridian's radii."""
+    if f.kind in (FeatureKind.FILLET, FeatureKind.CONCAVE_ARC):
+        why = _single_arc(part, f)
+        if why:
+            return None, {}, why
+        narrow, wide, narrow_far, wide_far, net = _step(f, part, axis, poly)
+        if wide <= net * (1 + 1e-6):
+            return None, {}, "no diameter step at this fillet"
+        if abs(narrow_far - narrow) > PRISMATIC_TOLERANCE * narrow or abs(wide_far - wide) > PRISMATIC_TOLERANCE * wide:
+            return None, {}, "the diameters on either side do not stay constant next to the fillet (no plain shoulder)"
+        return "shaft_shoulder", {"D": 2 * wide, "d": 2 * net, "r": f.radius}, ""
+    if f.kind == FeatureKind.NOTCH:
+        if not _u_flanks(part, f):
+            return None, {}, "the groove flanks are not parallel (not a U-groove)"
+        net = net_section(part, f, axis, poly)
+        lo, hi = feature_extent(part, f, axis)
+        R = _cut_width(part, axis, hi + max(hi - lo, 1e-9) * 2.0, poly)
+        if R <= net.width:
+            return None, {}, "could not measure the groove depth"
+        return "shaft_groove", {"D": 2 * R, "d": 2 * net.width, "r": f.radius}, ""
+    return None, {}, f"no round-shaft chart for a {f.kind.replace('_', ' ')}"
 
 
 def _resemble(f, part, axis, e, poly, feats) -> tuple[str | None, dict, str]:
@@ -192,29 +256,20 @@ def _resemble(f, part, axis, e, poly, feats) -> tuple[str | None, dict, str]:
     if f.kind in (FeatureKind.FILLET, FeatureKind.CONCAVE_ARC):
         # a flat shoulder: one circular arc of at most a quarter turn between a step and a narrow part that
         # both keep their width (prismatic) for a while, with a mirror fillet on the other side
-        if len(f.segments) != 1 or part.segment(f.segments[0]).kind != "arc":
-            return None, {}, "the feature is not a single circular arc"
-        if abs(part.segment(f.segments[0]).sweep()) > np.radians(90.0 + 1.0):
-            return None, {}, "the arc turns through more than a quarter turn: not a shoulder fillet"
-        lo, hi = feature_extent(part, f, axis)
-        net = net_section(part, f, axis, poly)
-        pad = 1e-3 * (hi - lo + 1.0)
-        w_lo = _cut_width(part, axis, lo - pad, poly)
-        w_hi = _cut_width(part, axis, hi + pad, poly)
-        D = max(w_lo, w_hi)
-        if D <= net.width * (1 + 1e-6):
+        why = _single_arc(part, f)
+        if why:
+            return None, {}, why
+        narrow, D, narrow_far, wide_far, net_width = _step(f, part, axis, poly)
+        if D <= net_width * (1 + 1e-6):
             return None, {}, "no width step at this fillet"
-        reach = max(2.0 * f.radius, 0.25 * net.width)
-        narrow_far = _cut_width(part, axis, (lo - reach) if w_lo < w_hi else (hi + reach), poly)
-        wide_far = _cut_width(part, axis, (hi + reach) if w_lo < w_hi else (lo - reach), poly)
-        narrow = min(w_lo, w_hi)
+        lo, hi = feature_extent(part, f, axis)
         if abs(narrow_far - narrow) > PRISMATIC_TOLERANCE * narrow or abs(wide_far - D) > PRISMATIC_TOLERANCE * D:
             return None, {}, "the widths on either side do not stay constant next to the fillet (no plain step)"
         twins = [g for g in feats.values() if g is not f and g.kind == f.kind
                  and abs(float(np.mean(feature_extent(part, g, axis))) - 0.5 * (lo + hi)) < 1e-6 * (1 + abs(lo))]
         if not twins:
             return None, {}, "one-sided step: the flat-shoulder chart is for a symmetric step"
-        return "shoulder_fillet", {"D": D, "d": net.width, "r": f.radius}, ""
+        return "shoulder_fillet", {"D": D, "d": net_width, "r": f.radius}, ""
     if f.kind == FeatureKind.NOTCH:
         if not _u_flanks(part, f):
             return None, {}, "the notch flanks are not parallel (not a U-notch)"
@@ -239,7 +294,9 @@ def with_charts(case: Case, part: PartGeometry, result: Result) -> Result:
         peaks = tuple(dataclasses.replace(p, chart=record, component_charts=per) if p.rank == check.peak_rank else p
                       for p in result.peaks)
         return dataclasses.replace(result, peaks=peaks, family_check=check)
-    nearest = nearest_charts(part, result)
+    carrying = frozenset(n for ld in case.loads for n in ((getattr(ld, "hole", None),) + tuple(getattr(ld, "on", ())))
+                         if n)
+    nearest = nearest_charts(part, result, carrying)
     peaks = tuple(dataclasses.replace(p, chart=nearest[p.rank][0], component_charts=nearest[p.rank][1])
                   if p.rank in nearest else p for p in result.peaks)
     return dataclasses.replace(result, peaks=peaks)

@@ -60,6 +60,7 @@ class Family:
     grid: Callable[[], tuple[GridPoint, ...]]
     models: tuple[str, ...] = ("plane_stress", "plane_strain")
     ends: tuple[str, str] = ENDS
+    holes: tuple[str, ...] = ()  # names of the cut-outs the shape creates (loads and supports refer to them)
 
 
 def need(cond: bool, family: str, message: str) -> None:

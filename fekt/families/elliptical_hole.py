@@ -40,4 +40,5 @@ FAMILY = Family(
     # W = inf is an infinite plate: net and gross coincide
     net_over_gross=lambda d, load: 1.0 if math.isinf(_width(d)) else width_ratio((_width(d) - 2 * d["a"]) / _width(d), load),
     grid=grid,
+    holes=("hole",),
 )

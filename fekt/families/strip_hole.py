@@ -27,4 +27,5 @@ FAMILY = Family(
     chart_dims=lambda d: {"d": d["d"], "W": d["W"]},
     net_over_gross=lambda d, load: width_ratio((d["W"] - d["d"]) / d["W"], load),
     grid=grid,
+    holes=("hole",),
 )

@@ -18,6 +18,9 @@ import numpy as np
 
 from ..kinds import CurveKind, FeatureKind, LoopKind
 
+#: the boundary name of the whole outer loop (a remote stress acts on all of it, named edges or not)
+OUTLINE = "@outline"
+
 LINE = CurveKind.LINE
 ARC = CurveKind.ARC
 ELLIPSE = CurveKind.ELLIPSE
@@ -209,6 +212,17 @@ class PartGeometry:
     def edge_segments(self, name: str) -> list[tuple[int, int]]:
         return [(li, si) for li, loop in enumerate(self.loops)
                 for si, s in enumerate(loop.segments) if s.edge == name]
+
+    def named_refs(self, name: str) -> list[tuple[int, int]]:
+        """(loop, segment) references of a boundary name: an outline edge's name, a cut-out's name, or
+        :data:`OUTLINE` (the whole outer loop)."""
+        if name == OUTLINE:
+            return [(0, si) for si in range(len(self.loops[0].segments))]
+        refs = self.edge_segments(name)
+        for li, loop in enumerate(self.loops):
+            if loop.kind == LoopKind.CUTOUT and loop.name == name:
+                refs += [(li, si) for si in range(len(loop.segments))]
+        return refs
 
     def edge_names(self) -> list[str]:
         names: list[str] = []

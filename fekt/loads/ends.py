@@ -30,7 +30,7 @@ from ..models.base import Model, Resultants, Section, section_of
 from .base import Applied, Component, LoadedEnd, Traction
 
 KIND = "ends"
-KEYS = ("type", "ends", "force", "stress", "moment")
+KEYS = ("type", "name", "ends", "force", "stress", "moment")
 #: the analysis models this load type applies to (in-plane forces and moments of a plate)
 MODELS = ("plane_stress", "plane_strain")
 
@@ -94,7 +94,8 @@ def parse(table: Mapping[str, object], ctx: LoadContext, item: str) -> EndsSpec:
     if force == 0 and not stress and moment == 0:
         # A zero load gives zero stress everywhere, and Kt is a ratio of stresses.
         raise CaseError("the load is zero", item=item, hint="give a non-zero force, stress or moment")
-    return EndsSpec(ends=ends, force=force, moment=moment, stress=stress)
+    return EndsSpec(ends=ends, force=force, moment=moment, stress=stress,
+                    name=F.name(table['name'], F.path(item, 'name')) if 'name' in table else "load")
 
 
 def _end(part: PartGeometry, name: str, item: str):
@@ -166,12 +167,12 @@ def apply(spec: EndsSpec, part: PartGeometry, model: Model, thickness: float) ->
         components.append(Component(
             name="force", load=spec.name, quantity="force", magnitude=force, operator=model.default_operator,
             tractions=(Traction(names[0], beam(secs[0], force, 0.0)), Traction(names[1], beam(secs[1], force, couple))),
-            statics=lambda sec: Resultants(N=force, M=force * (yc1 - sec.yc))))
+            statics=lambda sec, side=-1: Resultants(N=force, M=force * (yc1 - sec.yc))))
     if m1 != 0:
         components.append(Component(
             name="moment", load=spec.name, quantity="moment", magnitude=m1, operator=model.default_operator,
             tractions=(Traction(names[0], beam(secs[0], 0.0, m1)), Traction(names[1], beam(secs[1], 0.0, m1))),
-            statics=lambda sec: Resultants(M=m1)))
+            statics=lambda sec, side=-1: Resultants(M=m1)))
     ends = (LoadedEnd(names[0], names[0], secs[0], m1), LoadedEnd(names[1], names[1], secs[1], m2))
     return Applied(name=spec.name, kind=KIND, components=tuple(components), axis=(float(axis[0]), float(axis[1])),
                    ends=ends, loaded=frozenset(names), notes=tuple(notes))

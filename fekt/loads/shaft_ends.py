@@ -34,7 +34,7 @@ from . import ends as plane_ends
 from .base import Applied, Component, LoadedEnd, Traction
 
 KIND = "shaft_ends"
-KEYS = ("type", "ends", "force", "moment", "torque")
+KEYS = ("type", "name", "ends", "force", "moment", "torque")
 #: the analysis models this load type applies to
 MODELS = ("axisymmetric",)
 #: the operators it needs
@@ -71,7 +71,8 @@ def parse(table: Mapping[str, object], ctx: LoadContext, item: str) -> ShaftEnds
     torque = F.optional(table, "torque", 0.0, ctx.params, item)
     if force == 0 and moment == 0 and torque == 0:
         raise CaseError("the load is zero", item=item, hint="give a non-zero force, moment or torque")
-    return ShaftEndsSpec(ends=ends, force=force, moment=moment, torque=torque)
+    return ShaftEndsSpec(ends=ends, force=force, moment=moment, torque=torque,
+                    name=F.name(table['name'], F.path(item, 'name')) if 'name' in table else "load")
 
 
 def _end(part: PartGeometry, name: str, item: str):
@@ -139,7 +140,7 @@ def apply(spec: ShaftEndsSpec, part: PartGeometry, model: Model, thickness: floa
             components.append(Component(
                 name=cname, load=spec.name, quantity=cname, magnitude=value, operator=op,
                 tractions=(Traction(names[0], traction(secs[0])), Traction(names[1], traction(secs[1]))),
-                statics=lambda sec, st=statics: st))
+                statics=lambda sec, side=-1, st=statics: st))
     if not components:
         raise GeometryError("the load has no resultant (force, moment and torque are all zero)", item="load",
                             hint="give force, moment or torque")

@@ -18,7 +18,7 @@ from skfem.mapping import MappingIsoparametric
 
 from ..case.schema import MeshSpec
 from ..errors import InputError, MeshError
-from ..geometry.model import ARC, ELLIPSE, LINE, PartGeometry
+from ..geometry.model import ARC, ELLIPSE, LINE, OUTLINE, PartGeometry
 from ..kinds import LoopKind
 from .session import gmsh_session
 
@@ -164,7 +164,7 @@ def mesh_part(part: PartGeometry, spec: MeshSpec, *, order: int = 2, uniform: bo
 
 def named_boundaries(part: PartGeometry, bfac: np.ndarray, bloop: np.ndarray, bseg: np.ndarray) -> dict[str, np.ndarray]:
     """Facets of every named outline edge and of every cut-out (by the cut-out's name)."""
-    names: dict[str, list[tuple[int, int]]] = {}
+    names: dict[str, list[tuple[int, int]]] = {OUTLINE: part.named_refs(OUTLINE)}
     for li, loop in enumerate(part.loops):
         for si, seg in enumerate(loop.segments):
             if seg.edge:

@@ -52,7 +52,8 @@ from ..families import expand_family
 from ..geometry.build import build_part, cutout_loop
 from ..geometry.model import LINE, PartGeometry
 from ..kinds import LoopKind
-from .base import Model, Resultants, SectionProps, Stress
+from .base import (Model, Resultants, SectionProps, Stress, SurfaceStress, maximise_over_angle, surface_at_angle,
+                   surface_principal, surface_stress)  # noqa: F401 (re-exported)
 from .plane import lame_3d
 
 #: quadrature order of the r-weighted stiffness forms. With the weight r, the integrands of a P2 field
@@ -453,53 +454,9 @@ def axis_edge_names(part: PartGeometry) -> tuple[str, ...]:
 # --- combined peak on the surface ------------------------------------------------------------------------
 
 
-@dataclass(frozen=True)
-class SurfaceStress:
-    """Stress of one load component on the free surface at boundary points, in the surface frame:
-    ``stt`` the meridian tangential stress, ``shh`` the hoop stress, ``sth`` the tangential-hoop shear
-    (the normal components vanish on a free surface). Harmonic 1: stt and shh are cos(theta) amplitudes
-    and sth a sin(theta) amplitude."""
-
-    stt: np.ndarray
-    shh: np.ndarray
-    sth: np.ndarray
-    harmonic: int = 0
-
-
-def surface_stress(stress: Stress, normal: np.ndarray) -> SurfaceStress:
-    """The surface-frame stresses of a component from its stress at boundary points with outward normals
-    (2, n) in the meridian plane; the tangent is t = (-n_y, n_x) (direction of travel)."""
-    tx, ty = -normal[1], normal[0]
-    stt = stress.xx * tx * tx + 2 * stress.xy * tx * ty + stress.yy * ty * ty
-    sth = stress.xh * tx + stress.yh * ty
-    return SurfaceStress(np.asarray(stt), np.asarray(stress.hh), np.asarray(sth), stress.harmonic)
-
-
-def surface_state(parts: Sequence[tuple[float, SurfaceStress]], theta) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-    """(stt, shh, sth) of the factored components at angle theta (broadcast against the points):
-    harmonic 0 terms are constant, harmonic 1 normal terms scale with cos(theta), shear with sin(theta)."""
-    theta = np.asarray(theta, dtype=float)
-    stt = shh = sth = 0.0
-    for f, s in parts:
-        if s.harmonic == 0:
-            c = sn = 1.0
-        elif s.harmonic == 1:
-            c, sn = np.cos(theta), np.sin(theta)
-        else:
-            raise ValueError(f"circumferential harmonic {s.harmonic} is not supported")
-        stt = stt + f * c * s.stt
-        shh = shh + f * c * s.shh
-        sth = sth + f * sn * s.sth
-    return stt, shh, sth
-
-
-def surface_principal(stt, shh, sth) -> tuple[np.ndarray, np.ndarray]:
-    """Largest in-surface principal stress and the von Mises equivalent of a plane surface stress state
-    (the third principal stress, normal to the free surface, is zero)."""
-    c = 0.5 * (stt + shh)
-    s1 = c + np.hypot(0.5 * (stt - shh), sth)
-    vm = np.sqrt(np.maximum(stt * stt + shh * shh - stt * shh + 3.0 * sth * sth, 0.0))
-    return s1, vm
+# SurfaceStress, surface_stress and the combination at an angle are the model seam's (fekt.models.base):
+# every model whose load components are circumferential harmonics uses them; re-exported here.
+surface_state = surface_at_angle
 
 
 @dataclass(frozen=True)
@@ -515,54 +472,14 @@ class CombinedPeak:
     theta_von_mises: np.ndarray
 
 
-#: coarse angular grid of the maximisation (the state is a trigonometric polynomial of degree <= 2 in
-#: theta, so its maxima are at least ~45 degrees wide: 5 degrees brackets the right one); then
-#: golden-section steps on the bracket, each shrinking it by 0.618 (our own choices)
-COARSE_ANGLES = 72
-GOLDEN_STEPS = 40
-
-
 def combined_surface_peak(parts: Sequence[tuple[float, SurfaceStress]]) -> CombinedPeak:
     """Maximise the surface s1 and von Mises stress over theta for several components with factors.
 
     ``parts``: (factor, SurfaceStress) pairs of harmonics 0 and 1 at the same boundary points. With only
     harmonic-0 parts the state does not depend on theta and theta = 0 is returned."""
-    if not parts:
-        raise ValueError("no components to combine")
-    n = np.asarray(parts[0][1].stt).shape
-    if all(s.harmonic == 0 for _, s in parts):
-        s1, vm = surface_principal(*surface_state(parts, 0.0))
-        zero = np.zeros(n)
-        return CombinedPeak(np.broadcast_to(s1, n).copy(), zero, np.broadcast_to(vm, n).copy(), zero.copy())
-    flat = [(f, SurfaceStress(*(np.asarray(a).reshape(-1, 1) for a in (s.stt, s.shh, s.sth)), s.harmonic))
-            for f, s in parts]
-    out = []
-    for pick in (0, 1):
-        def value(theta, pick=pick):
-            return surface_principal(*surface_state(flat, theta))[pick]
-
-        grid = np.linspace(0.0, 2 * math.pi, COARSE_ANGLES, endpoint=False)[None, :]
-        k = np.argmax(value(grid), axis=1)
-        step = 2 * math.pi / COARSE_ANGLES
-        lo = (grid[0, k] - step)[:, None]
-        hi = (grid[0, k] + step)[:, None]
-        g = (math.sqrt(5.0) - 1.0) / 2.0
-        c, d = hi - g * (hi - lo), lo + g * (hi - lo)
-        fc, fd = value(c), value(d)
-        for _ in range(GOLDEN_STEPS):
-            left = fc >= fd  # the maximum lies in [lo, d]: keep it, else [c, hi]
-            hi = np.where(left, d, hi)
-            lo = np.where(left, lo, c)
-            c_new = np.where(left, hi - g * (hi - lo), d)
-            d_new = np.where(left, c, lo + g * (hi - lo))
-            fc, fd = np.where(left, value(c_new), fd), np.where(left, fc, value(d_new))
-            c, d = c_new, d_new
-        theta = 0.5 * (lo + hi)
-        best = value(theta)
-        coarse_best = value(grid[0, k][:, None])
-        theta = np.where(coarse_best > best, grid[0, k][:, None], theta)  # never worse than the grid
-        out.append((np.maximum(best, coarse_best)[:, 0].reshape(n), np.mod(theta[:, 0], 2 * math.pi).reshape(n)))
-    return CombinedPeak(out[0][0], out[0][1], out[1][0], out[1][1])
+    s1, t1 = maximise_over_angle(parts, lambda st: surface_principal(*st)[0])
+    vm, tv = maximise_over_angle(parts, lambda st: surface_principal(*st)[1])
+    return CombinedPeak(s1, t1, vm, tv)
 
 
 # --- the model record ------------------------------------------------------------------------------------
@@ -583,6 +500,9 @@ AXISYMMETRIC = Model(
     coordinates=("z", "r"),
     default_load="shaft_ends",
     element_label="6-node curved triangle (P2), axisymmetric and first-harmonic Fourier",
+    nominal_label=("sigma_nom = the peak's measure of the nominal surface stress at the peak's angle theta around "
+                   "the axis: axial N/A + (M r/I) cos(theta) and shear T r/J on the net section's disc or annulus, "
+                   "from statics (per component: 4F/(pi d^2), 32M/(pi d^3), 16T/(pi d^3) on a solid section)"),
     has_thickness=False,
     shear_nominal=shaft_shear_nominal,
     check_part=check_shaft_part,

@@ -19,7 +19,8 @@ a shaft) stores amplitudes: the xx, yy, hh, xy components vary as cos(theta) and
 
 from __future__ import annotations
 
-from collections.abc import Callable, Mapping
+import math
+from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass
 from typing import Any, Protocol
 
@@ -68,6 +69,104 @@ def in_plane_principal(xx: np.ndarray, yy: np.ndarray, xy: np.ndarray) -> tuple[
     c = 0.5 * (xx + yy)
     r = np.hypot(0.5 * (xx - yy), xy)
     return c + r, c - r
+
+
+# --- the free-surface stress state and circumferential harmonics ----------------------------------------
+
+@dataclass(frozen=True)
+class SurfaceStress:
+    """Stress of one load component on the free surface at boundary points, in the surface frame:
+    ``stt`` the in-plane tangential stress (direction of travel, material on the left), ``shh`` the
+    stress in the h direction (thickness or hoop), ``sth`` the t-h shear (the normal components vanish on
+    a free surface). Harmonic 1: stt and shh are cos(theta) amplitudes and sth a sin(theta) amplitude."""
+
+    stt: np.ndarray
+    shh: np.ndarray
+    sth: np.ndarray
+    harmonic: int = 0
+
+
+def surface_stress(stress: Stress, normal: np.ndarray) -> SurfaceStress:
+    """The surface-frame stresses of a component from its stress at boundary points with outward normals
+    (2, n); the tangent is t = (-n_y, n_x) (direction of travel)."""
+    tx, ty = -normal[1], normal[0]
+    stt = stress.xx * tx * tx + 2 * stress.xy * tx * ty + stress.yy * ty * ty
+    sth = stress.xh * tx + stress.yh * ty
+    return SurfaceStress(np.asarray(stt), np.asarray(stress.hh), np.asarray(sth), stress.harmonic)
+
+
+def surface_at_angle(parts: Sequence[tuple[float, SurfaceStress]], theta) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """(stt, shh, sth) of the factored components at angle theta (broadcast against the points):
+    harmonic 0 terms are constant, harmonic 1 normal terms scale with cos(theta), shear with sin(theta)."""
+    theta = np.asarray(theta, dtype=float)
+    stt = shh = sth = 0.0
+    for f, s in parts:
+        if s.harmonic == 0:
+            c = sn = 1.0
+        elif s.harmonic == 1:
+            c, sn = np.cos(theta), np.sin(theta)
+        else:
+            raise ValueError(f"circumferential harmonic {s.harmonic} is not supported")
+        stt = stt + f * c * s.stt
+        shh = shh + f * c * s.shh
+        sth = sth + f * sn * s.sth
+    return stt, shh, sth
+
+
+def surface_principal(stt, shh, sth) -> tuple[np.ndarray, np.ndarray]:
+    """Largest in-surface principal stress and the von Mises equivalent of a plane surface stress state
+    (the third principal stress, normal to the free surface, is zero)."""
+    c = 0.5 * (stt + shh)
+    s1 = c + np.hypot(0.5 * (stt - shh), sth)
+    vm = np.sqrt(np.maximum(stt * stt + shh * shh - stt * shh + 3.0 * sth * sth, 0.0))
+    return s1, vm
+
+
+#: maximisation over the angle: a coarse grid (the state is a trigonometric polynomial of degree <= 2 in
+#: theta, so its maxima are at least ~45 degrees wide: 5 degrees brackets the right one), then
+#: golden-section steps on the bracket, each shrinking it by 0.618 (our own choices)
+COARSE_ANGLES = 72
+GOLDEN_STEPS = 40
+
+
+def maximise_over_angle(parts: Sequence[tuple[float, SurfaceStress]],
+                        value: Callable[[tuple[np.ndarray, np.ndarray, np.ndarray]], np.ndarray]
+                        ) -> tuple[np.ndarray, np.ndarray]:
+    """Per point, the largest ``value(surface state)`` over the angle theta and the angle (radians in
+    [0, 2 pi)) where it occurs. With only harmonic-0 parts nothing depends on theta: theta = 0."""
+    if not parts:
+        raise ValueError("no components to combine")
+    n = np.asarray(parts[0][1].stt).shape
+    if all(s.harmonic == 0 for _, s in parts):
+        v = np.broadcast_to(value(surface_at_angle(parts, 0.0)), n).copy()
+        return v, np.zeros(n)
+    flat = [(f, SurfaceStress(*(np.asarray(a).reshape(-1, 1) for a in (s.stt, s.shh, s.sth)), s.harmonic))
+            for f, s in parts]
+
+    def at(theta):
+        return value(surface_at_angle(flat, theta))
+
+    grid = np.linspace(0.0, 2 * math.pi, COARSE_ANGLES, endpoint=False)[None, :]
+    k = np.argmax(at(grid), axis=1)
+    step = 2 * math.pi / COARSE_ANGLES
+    lo = (grid[0, k] - step)[:, None]
+    hi = (grid[0, k] + step)[:, None]
+    g = (math.sqrt(5.0) - 1.0) / 2.0
+    c, d = hi - g * (hi - lo), lo + g * (hi - lo)
+    fc, fd = at(c), at(d)
+    for _ in range(GOLDEN_STEPS):
+        left = fc >= fd  # the maximum lies in [lo, d]: keep it, else [c, hi]
+        hi = np.where(left, d, hi)
+        lo = np.where(left, lo, c)
+        c_new = np.where(left, hi - g * (hi - lo), d)
+        d_new = np.where(left, c, lo + g * (hi - lo))
+        fc, fd = np.where(left, at(c_new), fd), np.where(left, fc, at(d_new))
+        c, d = c_new, d_new
+    theta = 0.5 * (lo + hi)
+    best = at(theta)
+    coarse_best = at(grid[0, k][:, None])
+    theta = np.where(coarse_best > best, grid[0, k][:, None], theta)  # never worse than the grid
+    return np.maximum(best, coarse_best)[:, 0].reshape(n), np.mod(theta[:, 0], 2 * math.pi).reshape(n)
 
 
 @dataclass(frozen=True)
@@ -143,6 +242,8 @@ class Model:
     coordinates: tuple[str, str] = ("x", "y")
     default_load: str = "ends"
     element_label: str = "6-node curved triangle (P2)"
+    #: how this model forms the nominal stress of a load case, in words for reports
+    nominal_label: str = "sigma_nom = N/A + M*y/I by beam theory from statics"
     #: whether a case file may give a thickness (a plate has one; a solid of revolution has none)
     has_thickness: bool = True
     #: nominal shear stress of resultants at a point of a section, (resultants, props, y) -> tau; None
@@ -175,6 +276,7 @@ class Section:
     inertia: float
     polar: float
     centroid: tuple[float, float]
+    axis: tuple[float, float] = (1.0, 0.0)  # the load axis the cut is normal to
 
     @property
     def props(self) -> SectionProps:
@@ -189,9 +291,11 @@ class Section:
 
 def section_of(model: Model, cut: Any, axis: np.ndarray, thickness: float) -> Section:
     """The model's section of a geometric cut (:class:`fekt.geometry.sections.Cut`)."""
+    ax = (float(axis[0]), float(axis[1]))
     if cut.width <= 0:
-        return Section(cut.s, (), 0.0, 0.0, 0.0, 0.0, 0.0, (float("nan"), float("nan")))
+        return Section(cut.s, (), 0.0, 0.0, 0.0, 0.0, 0.0, (float("nan"), float("nan")), ax)
     p = model.section(np.array(cut.intervals, dtype=float), thickness)
     e = np.array([-axis[1], axis[0]])
     c = cut.s * np.asarray(axis) + p.yc * e
-    return Section(cut.s, cut.intervals, cut.width, p.area, p.yc, p.inertia, p.polar, (float(c[0]), float(c[1])))
+    return Section(cut.s, cut.intervals, cut.width, p.area, p.yc, p.inertia, p.polar, (float(c[0]), float(c[1])),
+                   ax)

@@ -98,6 +98,21 @@ class InPlane:
         comp = 1 if abs(ab[0]) >= abs(ab[1]) else 0
         return np.array([basis.nodal_dofs[k, v] for v, k in ((a, 0), (a, 1), (b, comp))])
 
+    def rigid_modes(self, basis) -> tuple[np.ndarray, tuple[str, ...], np.ndarray]:
+        """The three rigid motions as displacement vectors (N, 3): translation along x, along y, rotation
+        about the centroid of the nodes; their names; that centroid (supports are checked against them)."""
+        R = np.zeros((basis.N, 3))
+        xdofs = np.concatenate([basis.nodal_dofs[0], basis.facet_dofs[0]]) if basis.facet_dofs.size else \
+            basis.nodal_dofs[0]
+        ydofs = np.concatenate([basis.nodal_dofs[1], basis.facet_dofs[1]]) if basis.facet_dofs.size else \
+            basis.nodal_dofs[1]
+        c = basis.doflocs[:, xdofs].mean(axis=1)
+        R[xdofs, 0] = 1.0
+        R[ydofs, 1] = 1.0
+        R[xdofs, 2] = -(basis.doflocs[1, xdofs] - c[1])
+        R[ydofs, 2] = basis.doflocs[0, ydofs] - c[0]
+        return R, ("translation along x", "translation along y", "rotation"), c
+
     def stress(self, field, x, E: float, nu: float) -> Stress:
         lam, mu = self.lame(E, nu)
         grad = np.asarray(field.grad)

@@ -32,7 +32,9 @@ class BoundarySamples:
     ``s`` is the arc-length coordinate along the loop (direction of travel, material on the left);
     ``normal`` the outward unit normal; ``components`` the stress of each load component and ``stress``
     that of the load case the samples were combined for; ``stt`` the tangential stress, ``snn`` the
-    normal stress, ``s1``/``s2`` the in-plane principal stresses of the load case.
+    normal stress, ``s1``/``s2`` the in-plane principal stresses of the load case. The load-case fields
+    are None when its components are of different circumferential harmonics (a shaft in bending and
+    tension): such components combine at an angle around the axis (:mod:`fekt.post.measures`).
     """
 
     xy: np.ndarray
@@ -41,11 +43,11 @@ class BoundarySamples:
     s: np.ndarray
     normal: np.ndarray
     components: Mapping[str, Stress]
-    stress: Stress
-    stt: np.ndarray
-    snn: np.ndarray
-    s1: np.ndarray
-    s2: np.ndarray
+    stress: Stress | None
+    stt: np.ndarray | None
+    snn: np.ndarray | None
+    s1: np.ndarray | None
+    s2: np.ndarray | None
 
 
 def surface_stresses(stress: Stress, normal: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
@@ -89,10 +91,12 @@ def boundary_samples(sol: Solution, pmesh: PartMesh, part: PartGeometry,
     order = np.lexsort((s, loop))
     comps = {k: v.take(order) for k, v in comps.items()}
     weights = factors if factors is not None else {k: 1.0 for k in comps}
-    stress = combine(comps, weights)
     normal = N[:, order]
-    stt, snn = surface_stresses(stress, normal)
-    s1, s2 = in_plane_principal(stress.xx, stress.yy, stress.xy)
+    stress = stt = snn = s1 = s2 = None
+    if len({c.harmonic for k, c in comps.items() if weights.get(k, 0.0) != 0.0}) <= 1:
+        stress = combine(comps, weights)
+        stt, snn = surface_stresses(stress, normal)
+        s1, s2 = in_plane_principal(stress.xx, stress.yy, stress.xy)
     return BoundarySamples(xy=X[:, order], loop=loop[order], segment=seg[order], s=s[order], normal=normal,
                            components=comps, stress=stress, stt=stt, snn=snn, s1=s1, s2=s2)
 

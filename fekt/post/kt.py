@@ -20,7 +20,6 @@ import numpy as np
 
 from ..errors import SolveError
 from ..geometry.sections import transverse
-from ..loads.base import Applied
 from ..models.base import Model, Resultants, Section
 from ..solver.linear import Solution
 from .fields import probe_components
@@ -69,11 +68,22 @@ def nominal_stress(model: Model, section: Section, resultants: Resultants, y_pea
     return Nominal(section, resultants, y, model.nominal(resultants, section.props, y))
 
 
+def outer_fibre(section: Section) -> float:
+    """Largest distance of the section's material from its centroid (the c of M c / I)."""
+    return max((max(abs(lo - section.yc), abs(hi - section.yc)) for lo, hi in section.intervals), default=0.0)
+
+
+def stress_scales(section: Section, res: Resultants) -> tuple[float, float, float]:
+    """The nominal stresses each resultant alone gives at the outer fibre: |N|/A, |M| c/I, |T| c/J."""
+    c = outer_fibre(section)
+    return (abs(res.N) / section.area if section.area > 0 else 0.0,
+            abs(res.M) * c / section.inertia if section.inertia > 0 else 0.0,
+            abs(res.T) * c / section.polar if section.polar > 0 else 0.0)
+
+
 def kt(peak: float, nominal: Nominal) -> float | None:
     """Kt = peak / nominal, or None when the nominal stress vanishes (e.g. a peak on the neutral axis)."""
-    sec = nominal.section
-    half = 0.5 * sec.width
-    scale = abs(nominal.N) / sec.area + (abs(nominal.M) * half / sec.inertia if sec.inertia > 0 else 0.0)
+    scale = sum(stress_scales(nominal.section, nominal.resultants))
     if scale == 0 or abs(nominal.sigma) < NOMINAL_ZERO * scale:
         return None
     return peak / nominal.sigma
@@ -83,8 +93,9 @@ def kt(peak: float, nominal: Nominal) -> float | None:
 class EquilibriumCheck:
     fe: Resultants
     statics: Resultants
-    error_N: float  # relative to the section's force scale
+    error_N: float  # each as the nominal stress it would cause, relative to the largest nominal stress
     error_M: float
+    error_T: float = 0.0
 
     @property
     def ok(self) -> bool:
@@ -92,7 +103,7 @@ class EquilibriumCheck:
 
     @property
     def error(self) -> float:
-        return max(self.error_N, self.error_M)
+        return max(self.error_N, self.error_M, self.error_T)
 
 
 def cut_points(section: Section, axis: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
@@ -110,32 +121,35 @@ def cut_points(section: Section, axis: np.ndarray) -> tuple[np.ndarray, np.ndarr
     return section.s * axis[:, None] + y[None, :] * e[:, None], y, np.concatenate(ws)
 
 
-def check_equilibrium(sol: Solution, section: Section, applied: Applied, thickness: float) -> EquilibriumCheck:
-    """Each load component's FE section forces on the cut against its statics; the worst error of them."""
-    axis = np.array(applied.axis)
+def check_equilibrium(sol: Solution, section: Section, components, thickness: float,
+                      side: int = -1, moment: bool = True) -> EquilibriumCheck:
+    """Each load component's FE section forces on the cut against its statics (from the loads on ``side``
+    of the cut); the worst error of them. ``moment=False``: the axial force and torque only (a section
+    of a half model, whose moment the statics of the applied loads cannot give)."""
+    axis = np.array(section.axis)
     pts, y, wt = cut_points(section, axis)
     stresses = probe_components(sol, pts)
-    c = 0.5 * section.width
     worst = None
     total_fe, total_st = Resultants(), Resultants()
-    for comp in applied.components:
-        st = comp.statics(section)
+    for comp in components:
+        st = comp.statics(section, side)
         fe = sol.model.cut_resultants(stresses[comp.name], axis, y, wt, section.yc, thickness)
         total_fe, total_st = total_fe + fe, total_st + st
-        # scales: the larger of the axial and the bending contributions, as force and as moment
-        f_scale = max(abs(st.N), abs(st.M) * c / section.inertia * section.area if section.inertia else 0.0, 1e-300)
-        m_scale = max(abs(st.M), abs(st.N) * section.inertia / (c * section.area) if section.area else 0.0, 1e-300)
-        errs = (abs(fe.N - st.N) / f_scale, abs(fe.M - st.M) / m_scale)
+        # each resultant's miss as the nominal stress it would cause, over the component's largest one
+        scale = max(max(stress_scales(section, st)), 1e-300)
+        diff = Resultants(fe.N - st.N, fe.V - st.V, (fe.M - st.M) if moment else 0.0, fe.T - st.T)
+        errs = tuple(d / scale for d in stress_scales(section, diff))
         if worst is None or max(errs) > max(worst):
             worst = errs
-    worst = worst or (0.0, 0.0)
-    return EquilibriumCheck(total_fe, total_st, worst[0], worst[1])
+    worst = worst or (0.0, 0.0, 0.0)
+    return EquilibriumCheck(total_fe, total_st, *worst)
 
 
 def require_equilibrium(check: EquilibriumCheck, where: str) -> None:
     if not check.ok:
         raise SolveError(
             f"equilibrium check failed on the net section of {where}: FE gives N = {check.fe.N:.6g}, "
-            f"M = {check.fe.M:.6g}; statics give N = {check.statics.N:.6g}, M = {check.statics.M:.6g} "
-            f"(errors {check.error_N:.2%}, {check.error_M:.2%}; limit {EQUILIBRIUM_TOLERANCE:.1%}); "
+            f"M = {check.fe.M:.6g}, T = {check.fe.T:.6g}; statics give N = {check.statics.N:.6g}, "
+            f"M = {check.statics.M:.6g}, T = {check.statics.T:.6g} (errors {check.error_N:.2%}, "
+            f"{check.error_M:.2%}, {check.error_T:.2%}; limit {EQUILIBRIUM_TOLERANCE:.1%}); "
             "the mesh is too coarse on this section or the loads are not what they should be")

@@ -18,7 +18,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..geometry.model import Feature, PartGeometry
-from ..kinds import FeatureKind, LoopKind, PeakReason
+from ..kinds import FeatureKind, PeakReason
 from .fields import BoundarySamples
 
 #: a local extreme counts when its prominence is at least this fraction of the largest boundary stress
@@ -146,10 +146,8 @@ def feature_of_segment(part: PartGeometry) -> dict[tuple[int, int], Feature]:
 def boundary_refs(part: PartGeometry, names) -> set[tuple[int, int]]:
     """(loop, segment) pairs of the named boundaries (outline edges by edge name, cut-outs by name)."""
     refs: set[tuple[int, int]] = set()
-    for li, loop in enumerate(part.loops):
-        for si, seg in enumerate(loop.segments):
-            if seg.edge in names or (loop.kind == LoopKind.CUTOUT and loop.name in names):
-                refs.add((li, si))
+    for name in names:
+        refs.update(part.named_refs(name))
     return refs
 
 

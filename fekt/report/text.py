@@ -34,11 +34,13 @@ def table(headers: list[str], rows: list[list[str]]) -> list[str]:
 
 MEASURE_WORDS = {
     "tangential": "tangential boundary stress",
+    "principal": "principal boundary stress of the larger magnitude",
     "max_principal": "largest principal boundary stress",
     "min_principal": "smallest principal boundary stress",
     "von_mises": "von Mises equivalent boundary stress",
 }
-QUANTITY_UNITS = {"force": "force", "moment": "moment", "torque": "moment"}
+QUANTITY_UNITS = {"force": "force", "moment": "moment", "torque": "moment", "stress": "stress", "pressure": "stress",
+                  "shear": "stress", "end load": "force"}
 
 
 def _component_text(r: Result) -> str:
@@ -55,43 +57,42 @@ def format_result(r: Result) -> str:
     if r.source:
         lines.append(f"case file: {r.source}")
     ends = r.load.ends
-    lines.append(f"{r.model_label}, thickness {num(r.thickness)} {lu}; loads: {_component_text(r)}")
+    thick = f", thickness {num(r.thickness)} {lu}" if r.thickness is not None else ""
+    lines.append(f"{r.model_label}{thick}; loads: {_component_text(r)}")
     if len(ends) == 2 and (ends[0].moment or ends[1].moment):
         lines.append(f"  end moments {num(ends[0].moment)} at '{ends[0].name}' and {num(ends[1].moment)} at "
                      f"'{ends[1].name}' ({r.units.moment})")
     lines.append("")
     names = [c.name for c in r.load.components]
-    per_component = len(names) > 1
-    rows = []
-    for h in r.peaks:
-        feat = h.feature + (" [SINGULAR]" if h.singular else "")
-        kt_net = num(h.kt_net) if not h.singular else num(h.kt_net) + "*"
-        rad = "sharp" if h.radius == 0 else ("-" if not math.isfinite(h.radius) else num(h.radius))
-        unc = ""
-        if h.band is not None:
-            unc = "+-" + num(h.band.kt_net, 2) if h.band.kt_net is not None else "(no band)"
-        row = [str(h.rank), feat, f"({num(h.x, 5)}, {num(h.y, 5)})", num(h.peak),
-               num(h.sigma_nom_net), kt_net + (f" {unc}" if unc else ""), num(h.kt_gross)]
-        if per_component:
-            by = {c.name: c for c in h.components}
-            row += [num(by[n].kt_net) if n in by else "-" for n in names]
-        rows.append(row + [num(h.net_section.width), f"{num(h.element_size, 3)} / {rad}"])
     measure = MEASURE_WORDS.get(r.measure, r.measure)
-    lines.append(f"Stress peaks ({measure}, tensile and compressive, ranked by magnitude; stresses in {su}, "
-                 f"lengths in {lu}):")
-    lines += table(["#", "feature", "at (x, y)", "sigma_peak", "sigma_nom", "Kt_net", "Kt_gross",
-                    *(f"Kt_net {n}" for n in (names if per_component else ())), "net width",
-                    "elem size / radius"], rows)
+    heading = f"({measure}, tensile and compressive, ranked by magnitude; stresses in {su}, lengths in {lu})"
+    cases = r.load_cases or (None,)
+    for case in cases:
+        peaks = r.peaks if case is None else case.peaks
+        if case is not None:
+            factors = ", ".join(f"{name} x {num(f)}" for name, f in case.factors)
+            lines.append(f"Load case '{case.name}' ({factors}):")
+        lines += peak_tables(r, peaks, names, heading)
+        contacts = r.contacts if case is None else case.contacts
+        lines += [contact_line(c) for c in contacts]
+        if case is not None:
+            c = case.most_compressive
+            lines.append(f"Most compressive boundary stress: {num(c.sigma)} {su} at ({num(c.x, 5)}, {num(c.y, 5)})")
+            lines.append("")
     lines.append("")
     lines.append("Kt = sigma_peak / sigma_nom, signed: positive where the peak and the nominal stress there have "
                  "the same sign (a compressive peak under a compressive nominal stress has a positive Kt). "
-                 "Net section: the shortest cut normal to the load axis through the owning feature; sigma_nom = "
-                 "N/A + M*y/I by beam theory from statics. Gross section: the same cut without the feature "
+                 "Net section: the shortest cut normal to the load axis through the owning feature; "
+                 f"{r.nominal_rule or 'sigma_nom = N/A + M*y/I by beam theory from statics'}. Gross section: the same cut without the feature "
                  "(none for shoulders without a width step, corners and plain edges).")
-    if per_component:
-        lines.append("Kt_net <component>: each load component alone, at the same point, on its own nominal stress.")
-    c = r.most_compressive
-    lines.append(f"Most compressive boundary stress: {num(c.sigma)} {su} at ({num(c.x, 5)}, {num(c.y, 5)})")
+    if len(names) > 1:
+        lines.append("Kt_net <component>: each load component alone, at the same point, on its own nominal stress "
+                     "(none for a load that needs the others, or a support, to be in equilibrium).")
+    for source in sorted({h.nominal_source for h in _all_peaks(r) if h.nominal_source}):
+        lines.append(f"Nominal stress: {source}.")
+    if not r.load_cases:
+        c = r.most_compressive
+        lines.append(f"Most compressive boundary stress: {num(c.sigma)} {su} at ({num(c.x, 5)}, {num(c.y, 5)})")
     if r.estimate is not None:
         lines.append(f"Uncertainty: {TWO_GRID_METHOD}")
     lines += chart_lines(r)
@@ -121,6 +122,53 @@ def format_result(r: Result) -> str:
         lines.append("* singular stress peak: its value grows with mesh refinement; it is not a property of the part")
     lines.append(f"Caution: {r.caution}")
     return "\n".join(lines)
+
+
+def _all_peaks(r: Result):
+    return [h for c in r.load_cases for h in c.peaks] if r.load_cases else list(r.peaks)
+
+
+def peak_row(r: Result, h, names: list[str]) -> list[str]:
+    lu = r.units.length
+    feat = h.feature + (" [SINGULAR]" if h.singular else "")
+    kt_net = num(h.kt_net) if not h.singular else num(h.kt_net) + "*"
+    rad = "sharp" if h.radius == 0 else ("-" if not math.isfinite(h.radius) else num(h.radius))
+    unc = ""
+    if h.band is not None:
+        unc = "+-" + num(h.band.kt_net, 2) if h.band.kt_net is not None else "(no band)"
+    at = f"({num(h.x, 5)}, {num(h.y, 5)})" + (f" at {num(h.theta, 3)} deg" if h.theta is not None else "")
+    row = [str(h.rank), feat, at, num(h.peak), num(h.sigma_nom_net), kt_net + (f" {unc}" if unc else ""),
+           num(h.kt_gross)]
+    if len(names) > 1:
+        by = {c.name: c for c in h.components}
+        row += [num(by[n].kt_net) if n in by else "-" for n in names]
+    return row + [num(h.net_section.width), f"{num(h.element_size, 3)} / {rad}"] + (
+        [h.introduction] if h.introduction else [])
+
+
+def peak_tables(r: Result, peaks, names: list[str], heading: str) -> list[str]:
+    """The notch-peak table and, apart from it, the load-introduction peaks (where loads and supports enter
+    the part: bearing arcs, clamped corners), which are not notch Kt."""
+    cx, cy = r.coordinates
+    where = f"at ({cx}, {cy})" + (", theta" if any(h.theta is not None for h in peaks) else "")
+    head = ["#", "feature", where, "sigma_peak", "sigma_nom", "Kt_net", "Kt_gross",
+            *(f"Kt_net {n}" for n in (names if len(names) > 1 else ())), "net width", "elem size / radius"]
+    notch = [h for h in peaks if not h.introduction]
+    intro = [h for h in peaks if h.introduction]
+    out = [f"Stress peaks {heading}:"]
+    out += table(head, [peak_row(r, h, names) for h in notch]) if notch else ["  (none)"]
+    if intro:
+        out += ["", "Load-introduction peaks (where a load or a support enters the part; local to the idealised "
+                    "load, not notch Kt; never taken as the part's Kt unless named with --feature):"]
+        out += table(head + ["where"], [peak_row(r, h, names) for h in intro])
+    return out
+
+
+def contact_line(c) -> str:
+    case = f" in load case '{c.case}'" if c.case else ""
+    return (f"Pin '{c.load}'{case}: in contact from {num(c.arc_from, 3)} to {num(c.arc_to, 3)} deg either side of "
+            f"the force direction ({c.nodes} boundary nodes; active-set iterations {c.iterations}; largest overlap "
+            f"left {num(c.overlap, 2)})")
 
 
 def time_line(t) -> str:

@@ -149,7 +149,11 @@ _RECORD_FIELDS: dict[str, dict[str, str]] = {
     "Result": {"case_name": "-", "source": "-", "demo": "-", "units": "-", "model": "-", "model_label": "-",
                "thickness": "L", "material": "R", "load": "R", "mesh": "R", "timings": "R", "peaks": "R",
                "most_compressive": "R", "warnings": "-", "notes": "-", "caution": "-", "provenance": "R",
-               "measure": "-", "estimate": "R", "family_check": "R", "schema": "-"},
+               "measure": "-", "estimate": "R", "family_check": "R", "coordinates": "-", "nominal_rule": "-",
+               "load_cases": "R", "contacts": "R", "schema": "-"},
+    "LoadCaseRecord": {"name": "-", "factors": "-", "peaks": "R", "most_compressive": "R", "contacts": "R"},
+    "ContactRecord": {"load": "-", "case": "-", "arc_from": "-", "arc_to": "-", "nodes": "-", "iterations": "-",
+                      "overlap": "L", "pin_displacement": "L"},
     "LoadFacts": {"axis": "-", "force": "F", "ends": "R", "components": "R"},
     "EndFacts": {"name": "-", "width": "L", "moment": "M", "centroid": "L"},
     "ComponentFacts": {"name": "-", "load": "-", "quantity": "-", "magnitude": "Q"},
@@ -160,7 +164,8 @@ _RECORD_FIELDS: dict[str, dict[str, str]] = {
                    "reason": "-", "peak": "S", "radius": "L", "element_size": "L", "net_section": "R", "N": "F",
                    "M": "M", "sigma_nom_net": "S", "kt_net": "-", "gross_section": "R", "gross_rule": "-",
                    "sigma_nom_gross": "S", "kt_gross": "-", "equilibrium_error": "-", "scatter": "S",
-                   "components": "R", "band": "R", "chart": "R", "component_charts": "R"},
+                   "components": "R", "band": "R", "chart": "R", "component_charts": "R", "T": "M",
+                   "theta": "-", "introduction": "-", "nominal_source": "-"},
     "ComponentKt": {"name": "-", "quantity": "-", "stress": "S", "sigma_nom_net": "S", "kt_net": "-",
                     "sigma_nom_gross": "S", "kt_gross": "-"},
     "SectionRecord": {"s": "L", "width": "L", "area": "L2", "centroid": "L", "inertia": "L4", "intervals": "L",
@@ -208,7 +213,8 @@ _RECORD_FIELDS: dict[str, dict[str, str]] = {
 _FORCE_OF = {("Pa", "m"): "N", ("kPa", "m"): "kN", ("MPa", "m"): "MN", ("MPa", "mm"): "N", ("GPa", "mm"): "kN",
              ("psi", "in"): "lbf", ("ksi", "in"): "kip"}
 #: the dimension of a load component's magnitude, by its quantity
-_QUANTITY = {"force": "F", "moment": "M", "torque": "M", "stress": "S"}
+_QUANTITY = {"force": "F", "moment": "M", "torque": "M", "stress": "S", "pressure": "S", "shear": "S",
+             "end load": "F"}
 
 
 def force_unit(output: OutputUnits) -> str:

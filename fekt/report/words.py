@@ -121,7 +121,7 @@ def band_message(band: Band, *, x: float = math.nan, y: float = math.nan) -> str
 
 
 NO_CHART_WORDS = {
-    "combined load": "combined tension and bending: the charts cover one load at a time",
+    "combined load": "several loads at once: the charts cover one load at a time",
     "no notch peak": "no notch stress peak found",
 }
 

@@ -117,10 +117,11 @@ def level_sizes(specs: Sequence[MeshSpec]) -> list[float]:
     return [e0 / (s.elements_per_radius * 2 ** s.refine) for s in specs]
 
 
-def case_samples(result: Result) -> tuple[Sample, ...]:
-    """Kt_net at each stress peak of a pipeline result (peaks without a Kt are skipped)."""
+def case_samples(result: Result, peaks=None) -> tuple[Sample, ...]:
+    """Kt_net at each stress peak of a pipeline result, or of ``peaks`` (one load case's; peaks without a
+    Kt are skipped)."""
     out = []
-    for h in result.peaks:
+    for h in (result.peaks if peaks is None else peaks):
         if h.kt_net is None:
             continue
         ratio = h.kt_gross / h.kt_net if h.kt_gross is not None else None
@@ -251,8 +252,11 @@ def band_record(s: SpotStudy, method: str) -> Band:
 
 
 def part_scale(result: Result) -> float:
-    """A length for matching tolerances: the larger loaded end width."""
-    return max(e.width for e in result.load.ends)
+    """A length for matching tolerances: the larger loaded end width (the square root of the part's area
+    when no end is loaded)."""
+    if result.load.ends:
+        return max(e.width for e in result.load.ends)
+    return float(result.mesh.area) ** 0.5
 
 
 # --- the estimate attached to every `fekt solve` ------------------------------------------------
@@ -264,25 +268,36 @@ TWO_GRID = "two-grid"
 STUDY = "study"
 
 
-def two_grid_bands(case: Case, fine: Result) -> tuple[EstimateFacts, dict[int, Band]]:
+def two_grid_bands(case: Case, fine: Result) -> tuple[EstimateFacts, dict[int, Band], dict[str, dict[int, Band]]]:
     """Two-grid GCI (Roache 1994: Fs = 3 with the formal order p = 2) for every peak of ``fine``.
 
     The second mesh has half the case's elements per notch radius (about a third of the cost).
-    Returns how the estimate was made and each peak's band, keyed by the peak's rank."""
+    Returns how the estimate was made, each peak's band keyed by the peak's rank, and the same for the
+    peaks of each named load case (keyed by the case's name)."""
     coarse_spec = dataclasses.replace(case.mesh, elements_per_radius=case.mesh.elements_per_radius / TWO_GRID_RATIO)
-    coarse_lvl, _ = _case_level(case, coarse_spec, TWO_GRID_RATIO, EquilibriumMode.WARN)
-    fine_lvl = Level(case.mesh, fine.mesh.elements, fine.mesh.dofs, 1.0, 0.0, case_samples(fine))
-    spots = study_spots([coarse_lvl, fine_lvl], part_scale(fine))
+    coarse_lvl, coarse = _case_level(case, coarse_spec, TWO_GRID_RATIO, EquilibriumMode.WARN)
+    scale = part_scale(fine)
+
+    def bands_of(coarse_peaks, fine_peaks) -> dict[int, Band]:
+        c = dataclasses.replace(coarse_lvl, samples=case_samples(coarse, coarse_peaks))
+        f = Level(case.mesh, fine.mesh.elements, fine.mesh.dofs, 1.0, 0.0, case_samples(fine, fine_peaks))
+        return {s.rank: band_record(s, TWO_GRID) for s in study_spots([c, f], scale)}
+
     facts = EstimateFacts(method=TWO_GRID, ratio=TWO_GRID_RATIO, coarse_dofs=int(coarse_lvl.dofs),
                           coarse_seconds=coarse_lvl.seconds)
-    return facts, {s.rank: band_record(s, TWO_GRID) for s in spots}
+    per_case = {fc.name: bands_of(cc.peaks, fc.peaks) for cc, fc in zip(coarse.load_cases, fine.load_cases)}
+    return facts, bands_of(coarse.peaks, fine.peaks), per_case
 
 
-def with_bands(result: Result, facts: EstimateFacts, bands: dict[int, Band]) -> Result:
-    """The result with each peak's band set (peaks with no counterpart keep None)."""
+def with_bands(result: Result, facts: EstimateFacts, bands: dict[int, Band],
+               per_case: dict[str, dict[int, Band]] | None = None) -> Result:
+    """The result with each peak's band set (peaks with no counterpart keep None), in every load case."""
     peaks = tuple(dataclasses.replace(p, band=bands.get(p.rank)) for p in result.peaks)
+    cases = tuple(dataclasses.replace(c, peaks=tuple(dataclasses.replace(p, band=(per_case or {}).get(c.name, {})
+                                                                         .get(p.rank)) for p in c.peaks))
+                  for c in result.load_cases)
     timings = dataclasses.replace(result.timings, estimate_s=facts.coarse_seconds)
-    return dataclasses.replace(result, peaks=peaks, estimate=facts, timings=timings)
+    return dataclasses.replace(result, peaks=peaks, estimate=facts, timings=timings, load_cases=cases)
 
 
 @dataclass(frozen=True)
