@@ -20,6 +20,7 @@ from .mesh.build import PartMesh, mesh_part
 from .models import REGISTRY as MODELS
 from .post.evaluate import evaluate_peaks
 from .post.fields import BoundarySamples, boundary_samples
+from .post.gradient import with_gradients
 from .records import (ComponentFacts, EndFacts, LoadFacts, MeshFacts, Provenance, Result, Timings,
                       UnitsRecord)
 from .solver.linear import Solution, check_reactions, reaction_ratio, solve
@@ -102,6 +103,8 @@ def run(case: Case, *, equilibrium: EquilibriumMode = EquilibriumMode.FAIL) -> S
             raise
         # the mesh stage usually saw the cause (a thin ligament): say so with the failure
         raise SolveError(f"{exc}; the mesh stage warned: " + "; ".join(pmesh.warnings)) from exc
+    found = dataclasses.replace(found, peaks=with_gradients(found.peaks, samples, sol, pmesh, part, applied.axis,
+                                                            measure=Measure(case.measure)))
     t4 = time.perf_counter()
     warnings = list(part.warnings) + list(pmesh.warnings) + list(found.warnings)
     units = case.units

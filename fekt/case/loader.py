@@ -21,12 +21,15 @@ from typing import TypeVar
 from fekt.case import fields as F
 from fekt.case.expr import resolve_parameters
 from fekt.case.fields import Catalogue, LoadContext
+from fekt.case import strengths as S
 from fekt.case.output_units import OutputUnits, parse_output_units
 from fekt.case.schema import (
     FORCE_UNITS,
     LENGTH_UNITS,
     Case,
     CutoutSpec,
+    STRENGTH_KEYS,
+    AssessmentSpec,
     Material,
     MeshSpec,
     NotchSpec,
@@ -43,7 +46,7 @@ _T = TypeVar("_T")
 
 BULGES = ("out", "in")
 
-_TOP_KEYS = ("case", "units", "parameters", "part", "material", "load", "mesh")
+_TOP_KEYS = ("case", "units", "parameters", "part", "material", "load", "mesh", "cycle", "assessment")
 _CASE_KEYS = ("name", "description", "demo", "measure")
 #: the boundary stresses peaks can be found by (values of fekt.kinds.Measure)
 MEASURES = ("tangential", "max_principal", "min_principal", "von_mises")
@@ -72,7 +75,7 @@ _SHAPE_REQUIRED: Mapping[str, tuple[str, ...]] = {
     "chain": ("vertices",),
 }
 SHAPES = tuple(_SHAPE_KEYS)
-_MATERIAL_KEYS = ("E", "nu")
+_MATERIAL_KEYS = ("E", "nu", *STRENGTH_KEYS)
 _MESH_KEYS = ("elements_per_radius", "size", "growth", "max_elements")
 
 
@@ -146,9 +149,11 @@ def case_from_dict(data: dict, source: str, overrides: Mapping[str, float] | Non
     ctx = LoadContext(params=params, edges=edges, default_ends=tuple(family.ends) if family else None)
     loads = (_load(F.required(root, "load", ""), ctx, catalogue, catalogue.models[part.model].default_load),)
     mesh = _mesh(root.get("mesh", {}), params)
+    cycle = S.cycle(root["cycle"], params) if "cycle" in root else None
+    assessment = S.assessment(root["assessment"]) if "assessment" in root else AssessmentSpec()
     return Case(name=name, part=part, loads=loads, material=material, mesh=mesh, units=units,
                 description=description, parameters=tuple(params.items()), source=source, demo=demo,
-                measure=measure)
+                measure=measure, cycle=cycle, assessment=assessment)
 
 
 # --- [case] and [units] ------------------------------------------------------------------------------
@@ -424,7 +429,7 @@ def _material(raw: object, params: Mapping[str, float]) -> Material:
     # The isotropic elastic energy is positive definite only for -1 < nu < 0.5.
     if not -1.0 < nu < 0.5:
         raise CaseError(f"Poisson's ratio {nu:.6g} must lie strictly between -1 and 0.5", item="material.nu")
-    return Material(E=E, nu=nu)
+    return Material(E=E, nu=nu, **S.strengths(table, params))
 
 
 def _load(raw: object, ctx: LoadContext, catalogue: Catalogue, default: str) -> object:
