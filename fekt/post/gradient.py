@@ -13,8 +13,8 @@ How it is taken (measured on Kirsch's exact field, tests/test_gradient_fe.py; do
 * the stress is sampled at the interior Gauss points (6 per element) of the elements in a thin band along
   the inward normal: depth 0 .. ``depth``, tangential offset within +-``half_width``. Point values at element
   corners and edges (what a probe along the normal line returns) are about ten times less accurate: on the
-  Kirsch plate at 16 elements per radius a fit through them missed chi* by 4-17 %, the Gauss-point fit by
-  0.4 %;
+  Kirsch plate at 16 elements per radius a fit through them missed chi* by 3.5-16 %, the Gauss-point fit
+  by 0.4 % (benchmarks/GRADIENT.md);
 * a least-squares polynomial in depth (degree :data:`DEGREE`) times a quadratic in the tangential offset
   is fitted; chi* = -c_10 / c_00 (c_00 is the fitted surface stress);
 * at a concave curved boundary of radius rho (a notch root, a hole, a fillet) the depth enters as
