@@ -67,3 +67,44 @@ def kirsch_displacement_radial(r, theta, a: float, S: float, E: float, nu: float
     kappa = kolosov_kappa(nu, plane_strain)
     return S / (8 * mu * r) * ((kappa - 1) * r ** 2 + 2 * a ** 2
                                + 2 * (r ** 2 + (kappa + 1) * a ** 2 - a ** 4 / r ** 2) * np.cos(2 * theta))
+
+
+# --- Neuber (1958): deep hyperbolic circumferential groove in a round bar ------------------------------
+#
+# A round bar necked by a hyperboloid of revolution r^2/a^2 - z^2/(a rho) = 1 (neck radius a, root radius
+# rho), infinitely deep (the flanks run to infinity), loaded through the neck. Kt on the neck section:
+# sigma_nom = P/(pi a^2) in tension, 4M/(pi a^3) in bending, tau_nom = 2T/(pi a^3) in torsion.
+# Tension and bending: H. Neuber, Kerbspannungslehre, 2nd ed. 1958 (Theory of Notch Stresses, English
+# translation 1961), deep external hyperbolic notch in a round bar, also quoted in Peterson's Stress
+# Concentration Factors; recalled from memory. Checks that do not rely on memory: both give Kt = 1 as
+# a/rho -> 0, and as a/rho -> infinity they tend to the crack-tip limits sqrt(a/rho) (tension) and
+# (3/4) sqrt(a/rho) (bending) that follow from the stress intensity factors of a deep circumferential
+# crack in a round bar, K = sigma_nom sqrt(pi a)/2 and (3/8) sigma_nom sqrt(pi a), with
+# sigma_max = 2 K / sqrt(pi rho) (Creager & Paris 1967; Tada, Paris & Irwin, The Stress Analysis of Cracks
+# Handbook; from memory). Torsion: derived for fekt (docs/references.md): in oblate spheroidal
+# coordinates z + i r = c sinh(xi + i eta), which are conformal, the torsion equation
+# d/dxi(r^3 dphi/dxi) + d/deta(r^3 dphi/deta) = 0 has the solution dphi/dxi = C / cosh^3(xi) that leaves
+# the hyperboloid eta = eta0 traction-free; the surface shear is largest at the neck and with
+# s = sqrt(a/rho + 1) = 1/cos(eta0) the torque integral gives Kts = 3 (1 + s)^2 / (4 (1 + 2 s)) (this
+# agrees with the formula recalled from Neuber).
+
+
+def neuber_deep_groove_tension(a_over_rho: float, nu: float) -> float:
+    """Kt of the deep hyperbolic groove in a round bar under tension (Neuber 1958; from memory)."""
+    q = float(a_over_rho)
+    s = np.sqrt(q + 1.0)
+    return float((q * s + (0.5 + nu) * q + (1.0 + nu) * (s + 1.0)) / (q + 2.0 * nu * s + 2.0))
+
+
+def neuber_deep_groove_bending(a_over_rho: float, nu: float) -> float:
+    """Kt of the deep hyperbolic groove in a round bar under bending (Neuber 1958; from memory)."""
+    q = float(a_over_rho)
+    s = np.sqrt(q + 1.0)
+    n = 3.0 * (q + 1.0) + (1.0 + 4.0 * nu) * s + (1.0 + nu) / (1.0 + s)
+    return float(3.0 / (4.0 * n) * (1.0 + s) * (3.0 * q - (1.0 - 2.0 * nu) * s + 4.0 + nu))
+
+
+def neuber_deep_groove_torsion(a_over_rho: float) -> float:
+    """Kts of the deep hyperbolic groove in a round bar under torsion (derived above; independent of nu)."""
+    s = np.sqrt(float(a_over_rho) + 1.0)
+    return float(3.0 * (1.0 + s) ** 2 / (4.0 * (1.0 + 2.0 * s)))

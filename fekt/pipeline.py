@@ -86,6 +86,7 @@ def run(case: Case, *, equilibrium: EquilibriumMode = EquilibriumMode.FAIL) -> S
         equilibrium = EquilibriumMode.WARN
     t0 = time.perf_counter()
     model = model_of(case)
+    model.validate(case.part)
     part = build_part(case.part)
     applied = apply_loads(case, part)
     t1 = time.perf_counter()

@@ -14,7 +14,8 @@ from .loads import REGISTRY as LOADS
 from .models import REGISTRY as MODELS
 
 CATALOGUE = Catalogue(
-    models=MappingProxyType({m.name: ModelInfo(m.name, m.needs_thickness, m.default_load) for m in MODELS.values()}),
+    models=MappingProxyType({m.name: ModelInfo(m.name, m.needs_thickness, m.default_load, m.has_thickness)
+                              for m in MODELS.values()}),
     loads=LOADS,
     families=FAMILIES,
 )

@@ -408,3 +408,22 @@ def test_methods_use_the_radius_at_the_peak():
     a = assess_peak(p, m, MM_MPA, model=PLANE, axis=(1, 0), cycle=None)
     assert a.radius == 4.0
     assert a.notch_factors[0].q == pytest.approx(0.941176, rel=1e-6)
+
+
+def test_loading_class_and_refusals_per_peak():
+    # the load type that makes most of the peak stress selects the Kuhn-Hardrath polynomial and the chart
+    # gradient: here the moment (180 of 250), so bending: the chart adds 2/d = 2/10 (FKM, from memory)
+    p = notch_peak()
+    p = type(p)(**{**p.__dict__, "components": (ComponentKt("force", "force", 70.0, 28.0, 2.5, None, None),
+                                                ComponentKt("moment", "moment", 180.0, 72.0, 2.5, None, None))})
+    a = assess_peak(p, M600, MM_MPA, model=PLANE, axis=(1, 0), cycle=None)
+    assert a.loading == "bending" and a.relative_gradient.chart == pytest.approx(2.0 + 0.2)
+    # a torque: Peterson's steel fit is for normal stress and Heywood's constants too: each refuses with its
+    # reason instead of stopping the assessment; Neuber has a torsion polynomial
+    t = type(p)(**{**p.__dict__, "components": (ComponentKt("torque", "torque", 250.0, 100.0, 2.5, None, None),)})
+    b = assess_peak(t, M600, MM_MPA, model=PLANE, axis=(1, 0), cycle=None)
+    kf = {f.method: f for f in b.notch_factors}
+    assert b.loading == "torsion"
+    assert kf["Peterson"].kf is None and "normal stress" in kf["Peterson"].reason
+    assert kf["Heywood"].kf is None and "torsion" in kf["Heywood"].reason
+    assert kf["Neuber/Kuhn-Hardrath"].kf is not None

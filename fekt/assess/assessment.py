@@ -173,11 +173,12 @@ def check_inputs(m: Strengths, *, fatigue: bool, notch_factor: str, criteria: Se
 # --- per peak ---------------------------------------------------------------------------------------
 
 def loading_of(peak: StressPeak) -> Loading:
-    """Bending when the moment components make more of the peak stress than the force components (the
-    chart gradient then adds 2/d), else axial."""
-    bend = sum(abs(c.stress) for c in peak.components if c.quantity == "moment")
-    axial = sum(abs(c.stress) for c in peak.components if c.quantity in ("force", "stress"))
-    return Loading.BENDING if bend > axial else Loading.AXIAL
+    """The load component type that makes most of the peak stress: torsion (a torque), bending (a moment:
+    the chart gradient then adds 2/d) or axial."""
+    share = {Loading.AXIAL: sum(abs(c.stress) for c in peak.components if c.quantity in ("force", "stress")),
+             Loading.BENDING: sum(abs(c.stress) for c in peak.components if c.quantity == "moment"),
+             Loading.TORSION: sum(abs(c.stress) for c in peak.components if c.quantity == "torque")}
+    return max(share, key=lambda k: (share[k], k is Loading.AXIAL))
 
 
 def _estimate_record(e: Estimate) -> EstimateRecord:
@@ -238,16 +239,20 @@ def notch_factors(peak: StressPeak, m: Strengths, units: UnitScale, loading: Loa
             out.append(_refused(method, f"the stress rises inward from this peak (chi* = {chi:.4g}): it is not a "
                                         "peak along the normal, no support effect"))
             continue
-        if method is NotchMethod.PETERSON:
-            nf = peterson(kt, radius, m, loading=loading, units=units)
-        elif method is NotchMethod.NEUBER:
-            nf = neuber(kt, radius, m, loading=loading, units=units)
-        elif method is NotchMethod.HEYWOOD:
-            nf = heywood(kt, radius, m, shape=shape or NotchShape.GROOVE, loading=loading, units=units)
-        elif method is NotchMethod.FKM_SUPPORT:
-            nf = fkm_notch_factor(kt, chi, m, units=units)
-        else:
-            nf = siebel_stieler_notch_factor(kt, chi, m)
+        try:
+            if method is NotchMethod.PETERSON:
+                nf = peterson(kt, radius, m, loading=loading, units=units)
+            elif method is NotchMethod.NEUBER:
+                nf = neuber(kt, radius, m, loading=loading, units=units)
+            elif method is NotchMethod.HEYWOOD:
+                nf = heywood(kt, radius, m, shape=shape or NotchShape.GROOVE, loading=loading, units=units)
+            elif method is NotchMethod.FKM_SUPPORT:
+                nf = fkm_notch_factor(kt, chi, m, units=units)
+            else:
+                nf = siebel_stieler_notch_factor(kt, chi, m)
+        except InputError as exc:  # the method refuses this peak (e.g. a steel fit in torsion): say why
+            out.append(_refused(method, exc.message))
+            continue
         if nf.constant is not None and nf.constant.estimate is not None:
             e = nf.constant.estimate
             estimates[(e.quantity, e.rule, round(e.value, 12))] = _estimate_record(e)
@@ -282,7 +287,10 @@ def gradient_check(peak: StressPeak, loading: Loading, shape: NotchShape | None)
         why = "the chart gradients are for the stress-raising peak of a notch (Kt >= 1)"
     if why is not None:
         return GradientCheck(fe, err, None, reason=reason, notes=(f"chart: {why}",))
-    ch = chart_gradient(shape, root_radius_of(peak), loading, net_size=peak.net_section.width)
+    try:
+        ch = chart_gradient(shape, root_radius_of(peak), loading, net_size=peak.net_section.width)
+    except InputError as exc:
+        return GradientCheck(fe, err, None, reason=reason, notes=(f"chart: {exc.message}",))
     diff = 100.0 * (ch.value / fe - 1.0) if fe else None
     return GradientCheck(fe, err, ch.value, f"{ch.formula} ({ch.shape.value}, {ch.loading.value})", ch.source, diff,
                          tuple(ch.notes), reason)

@@ -179,6 +179,7 @@ class ModelInfo:
     name: str
     needs_thickness: bool
     default_load: str
+    has_thickness: bool = True  # False: a thickness in the case file is an error (a shaft has none)
 
 
 @dataclass(frozen=True)

@@ -147,7 +147,7 @@ def case_from_dict(data: dict, source: str, overrides: Mapping[str, float] | Non
     family = catalogue.families[part.family] if part.family else None
     edges = tuple(family.edges) if family else tuple(_edge_names(part.outline))
     ctx = LoadContext(params=params, edges=edges, default_ends=tuple(family.ends) if family else None)
-    loads = (_load(F.required(root, "load", ""), ctx, catalogue, catalogue.models[part.model].default_load),)
+    loads = (_load(F.required(root, "load", ""), ctx, catalogue, part.model),)
     mesh = _mesh(root.get("mesh", {}), params)
     cycle = S.cycle(root["cycle"], params) if "cycle" in root else None
     assessment = S.assessment(root["assessment"]) if "assessment" in root else AssessmentSpec()
@@ -201,14 +201,18 @@ def _part(raw: object, params: Mapping[str, float], catalogue: Catalogue, units:
           source: str = "") -> PartSpec:
     table = F.table(raw, "part")
     F.check_keys(table, _PART_KEYS, "part")
-    model = F.choice(table.get("model", "plane_stress"), tuple(catalogue.models), "part.model")
+    model = F.choice(table.get("model", _default_model(table, catalogue)), tuple(catalogue.models), "part.model")
+    if "thickness" in table and not catalogue.models[model].has_thickness:
+        raise CaseError(f"model '{model}' takes no thickness", item="part.thickness",
+                        hint="a shaft is a solid of revolution described by its meridian section (x along the axis, "
+                             "y = radius); remove thickness")
     if "thickness" in table:
         thickness = F.positive(table["thickness"], params, "part.thickness")
     elif catalogue.models[model].needs_thickness:
         raise CaseError("missing required value 'thickness' in [part]", item="part.thickness",
                         hint="a plane-stress part needs its thickness to turn forces into stresses")
     else:
-        thickness = 1.0  # plane strain: per unit thickness
+        thickness = 1.0  # plane strain: per unit thickness; a shaft has none (not used)
     if "family" in table:
         return _family_part(table, params, catalogue, model, thickness)
     if "dxf" in table:
@@ -225,6 +229,14 @@ def _part(raw: object, params: Mapping[str, float], catalogue: Catalogue, units:
     F.unique([n.name for n in notches], "part.notches", "notch")
     notches = tuple(_notch_on_outline(n, k, outline) for k, n in enumerate(notches))
     return PartSpec(outline=outline, cutouts=cutouts, notches=notches, model=model, thickness=thickness)
+
+
+def _default_model(table: Mapping[str, object], catalogue: Catalogue) -> str:
+    """The model when the file gives none: a standard shape's first model (a shaft family is
+    axisymmetric), otherwise plane stress."""
+    family = catalogue.families.get(table["family"]) if isinstance(table.get("family"), str) else None
+    models = getattr(family, "models", None)
+    return models[0] if models else "plane_stress"
 
 
 def _dxf_part(table: Mapping[str, object], params: Mapping[str, float], units: Units,
@@ -254,6 +266,11 @@ def _family_part(table: Mapping[str, object], params: Mapping[str, float], catal
             raise CaseError(f"'{key}' cannot be combined with family = '{family}'", item=f"part.{key}",
                             hint="a family builds the whole outline from its dimensions; remove one of them")
     shape = catalogue.families[family]
+    models = tuple(getattr(shape, "models", ()) or ())
+    if models and model not in models:
+        raise CaseError(f"family '{family}' is not solved with model '{model}'", item="part.model",
+                        hint=f"it takes model = {' or '.join(repr(m) for m in models)}"
+                             + ("; or leave model out" if "model" in table else ""))
     dims = F.table(F.required(table, "dimensions", "part"), "part.dimensions")
     F.check_keys(dims, shape.required + shape.optional, "part.dimensions")
     for key in shape.required:
@@ -432,12 +449,30 @@ def _material(raw: object, params: Mapping[str, float]) -> Material:
     return Material(E=E, nu=nu, **S.strengths(table, params))
 
 
-def _load(raw: object, ctx: LoadContext, catalogue: Catalogue, default: str) -> object:
+def _load(raw: object, ctx: LoadContext, catalogue: Catalogue, model: str) -> object:
     """One load table: its ``type`` (the model's usual load when not given) names the load type that reads
-    the rest of its keys."""
+    the rest of its keys. A load type that lists the models it applies to (``MODELS``) is refused on
+    others, and a key that belongs to another load type says which one."""
     table = F.table(raw, "load")
+    default = catalogue.models[model].default_load
     kind = F.choice(table["type"], tuple(catalogue.loads), "load.type") if "type" in table else default
     load_type = catalogue.loads[kind]
+    models = getattr(load_type, "MODELS", None)
+    if models and model not in models:
+        raise CaseError(f"load type '{kind}' does not apply to model '{model}'", item="load.type",
+                        hint=f"'{kind}' is for model = {' or '.join(repr(m) for m in models)}; model '{model}' "
+                             f"takes type = '{default}'")
+    for key in table:
+        if key in load_type.KEYS:
+            continue
+        owners = [k for k, t in catalogue.loads.items() if k != kind and key in t.KEYS]
+        if owners:
+            where = "; ".join(f"load type '{k}'" + (f" (model = {' or '.join(repr(m) for m in t.MODELS)})"
+                                                     if getattr(t, "MODELS", None) else "")
+                              for k, t in ((k, catalogue.loads[k]) for k in owners))
+            raise CaseError(f"'{key}' is not a load of model '{model}' (load type '{kind}' takes "
+                            f"{', '.join(k for k in load_type.KEYS if k != 'type')})", item=F.path("load", key),
+                            hint=f"'{key}' belongs to {where}")
     F.check_keys(table, load_type.KEYS, "load")
     return load_type.parse({k: v for k, v in table.items() if k != "type"}, ctx, "load")
 

@@ -1,4 +1,4 @@
-"""Published chart fits for Kt of flat notched parts, with validity ranges and sources.
+"""Published chart fits for Kt of flat notched parts and round shafts, with validity ranges and sources.
 
 Pure data and small pure functions; no finite elements here. Each fit is a frozen
 :class:`ChartFit` carrying its nominal-stress basis, the dimensionless ranges it covers,
@@ -35,17 +35,18 @@ import numpy as np
 from scipy.interpolate import CubicSpline
 
 from fekt.errors import InputError
-from fekt.exact import inglis_kt
+from fekt.exact import (inglis_kt, neuber_deep_groove_bending, neuber_deep_groove_tension,
+                        neuber_deep_groove_torsion)
 from fekt.families import REGISTRY as SHAPES
 
 Family = str  # a key of FAMILIES
-Load = Literal["tension", "bending"]
+Load = Literal["tension", "bending", "torsion"]
 Basis = Literal["net", "gross"]
 Confidence = Literal["high", "moderate", "low"]
 
 #: chart families: every standard shape of the registry, plus chart-only shapes (no part to build)
 FAMILIES: tuple[str, ...] = (*SHAPES, "semi_infinite_u_notch")
-LOADS: tuple[str, ...] = ("tension", "bending")
+LOADS: tuple[str, ...] = ("tension", "bending", "torsion")
 BASES: tuple[str, ...] = ("net", "gross")
 CONFIDENCES: tuple[str, ...] = ("high", "moderate", "low")
 
@@ -468,6 +469,111 @@ def semi_infinite_u_kt(t_over_r: float) -> float:
 
 
 # ---------------------------------------------------------------------------
+# Round shafts: shoulder fillet (cubic fits) and circumferential U-groove (limits and their combination)
+# ---------------------------------------------------------------------------
+
+# Round bar with a shoulder fillet, t = (D - d)/2, u = 2t/D, q = t/r, net basis on d. Sets as recalled
+# from Peterson's Stress Concentration Factors 3rd ed. (stepped round bar charts); Roark's Table 17.1
+# has closely similar sets (verification notes 2.6; from memory, moderate). Sanity check that does not
+# rely on the same memory: within 1-3 % (tension, torsion) and 2-7 % (bending) of Norton's power-law
+# fits, recalled independently (notes 2.6, 2.8).
+SHAFT_SHOULDER_TENSION: tuple[CoefficientSet, ...] = (
+    CoefficientSet(0.1, 2.0, False, (
+        (0.926, 1.157, -0.099),
+        (0.012, -3.036, 0.961),
+        (-0.302, 3.977, -1.744),
+        (0.365, -2.098, 0.878),
+    )),
+    CoefficientSet(2.0, 20.0, True, (
+        (1.200, 0.860, -0.022),
+        (-1.805, -0.346, -0.038),
+        (2.198, -0.486, 0.165),
+        (-0.593, -0.028, -0.106),
+    )),
+)
+SHAFT_SHOULDER_BENDING: tuple[CoefficientSet, ...] = (
+    CoefficientSet(0.1, 2.0, False, (
+        (0.947, 1.206, -0.131),
+        (0.022, -3.405, 0.915),
+        (0.869, 1.777, -0.555),
+        (-0.810, 0.422, -0.260),
+    )),
+    CoefficientSet(2.0, 20.0, True, (
+        (1.232, 0.832, -0.008),
+        (-3.813, 0.968, -0.260),
+        (7.423, -4.868, 0.869),
+        (-3.839, 3.070, -0.600),
+    )),
+)
+SHAFT_SHOULDER_TORSION: tuple[CoefficientSet, ...] = (
+    CoefficientSet(0.25, 4.0, True, (
+        (0.905, 0.783, -0.075),
+        (-0.437, -1.969, 0.553),
+        (1.557, 1.073, -0.578),
+        (-1.061, 0.171, 0.086),
+    )),
+)
+SHAFT_SHOULDER_SETS = {"tension": SHAFT_SHOULDER_TENSION, "bending": SHAFT_SHOULDER_BENDING,
+                       "torsion": SHAFT_SHOULDER_TORSION}
+
+
+def shaft_shoulder_kt(load: str, t_over_r: float, u: float) -> float:
+    """Net Kt of a round bar with a shoulder fillet (notes 2.6, from memory): load 'tension', 'bending' or
+    'torsion' (Kts on 16T/(pi d^3)); q = t/r, u = 2t/D."""
+    return cubic_in_u(pick_set(SHAFT_SHOULDER_SETS[load], t_over_r).c, t_over_r, u)
+
+
+#: Poisson's ratio of the deep-groove limits (Neuber's tension and bending values depend on it; the
+#: handbook charts are drawn for 0.3)
+GROOVE_NU = 0.3
+
+
+def groove_deep_kt(load: str, d: float, r: float, nu: float = GROOVE_NU) -> float:
+    """Neuber's deep hyperbolic groove (fekt.exact) with neck radius a = d/2 and root radius rho = r, net
+    basis: the deep limit of a U-groove."""
+    q = d / 2 / r
+    if load == "tension":
+        return neuber_deep_groove_tension(q, nu)
+    if load == "bending":
+        return neuber_deep_groove_bending(q, nu)
+    return neuber_deep_groove_torsion(q)
+
+
+def groove_shallow_kt(load: str, t: float, r: float) -> float:
+    """Shallow limit of a groove of depth t and root radius r (notes 2.7): the U-notch in the edge of a
+    half-plane, 0.855 + 2.21 sqrt(t/r), in tension and bending (locally a plane-strain edge notch, whose
+    stresses do not depend on the plane assumption; Pilkey & Pilkey 2008, from memory); the antiplane
+    elliptical notch 1 + sqrt(t/r) in torsion (exactly 2 for a semicircular groove)."""
+    return 1.0 + math.sqrt(t / r) if load == "torsion" else semi_infinite_u_kt(t / r)
+
+
+def shallow_deep_combination(kts: float, ktd: float) -> float:
+    """Neuber's rule (Neuber 1958): Kt - 1 = (Kts - 1)(Ktd - 1) / sqrt((Kts - 1)^2 + (Ktd - 1)^2)."""
+    a, b = kts - 1.0, ktd - 1.0
+    return 1.0 + a * b / math.hypot(a, b)
+
+
+def groove_combined_kt(load: str, D: float, d: float, r: float) -> float:
+    """Net Kt of a U-groove from Neuber's rule with the shallow and deep limits above."""
+    return shallow_deep_combination(groove_shallow_kt(load, (D - d) / 2, r), groove_deep_kt(load, d, r))
+
+
+_SHAFT_NOMINAL = {"tension": "4P/(pi d^2)", "bending": "32M/(pi d^3)", "torsion": "16T/(pi d^3) (shear: Kts)"}
+_SHAFT_NOMINAL_GROSS = {"tension": "4P/(pi D^2)", "bending": "32M/(pi D^3)",
+                        "torsion": "16T/(pi D^3) (shear: Kts)"}
+
+
+def _check_shaft(key: str, d: Mapping[str, float]) -> None:
+    _finite_positive(key, d, "D", "d", "r")
+    _need(d["d"] < d["D"], key, "d", f"net diameter d={d['d']!r} must be < D={d['D']!r}")
+
+
+def _ratios_shaft(d: Mapping[str, float]) -> dict[str, float]:
+    t = (d["D"] - d["d"]) / 2
+    return {"t/r": t / d["r"], "2t/D": 2 * t / d["D"]}
+
+
+# ---------------------------------------------------------------------------
 # Basis conversion
 # ---------------------------------------------------------------------------
 
@@ -691,7 +797,108 @@ def _build_fits() -> tuple[ChartFit, ...]:
             ratio_fn=_ratios_semi_u,
             check_fn=_check_semi_u,
         ),
+        *_shaft_fits(),
     )
+
+
+def _shaft_fits() -> tuple[ChartFit, ...]:
+    """Round-shaft fits: shoulder fillet per load; groove deep limit, shallow limit and their combination."""
+    fits = []
+    shoulder_ranges = {
+        "tension": ParamRange("t/r", 0.1, 20.0, "two coefficient ranges 0.1-2 and 2-20 (notes 2.6, from memory)"),
+        "bending": ParamRange("t/r", 0.1, 20.0, "two coefficient ranges 0.1-2 and 2-20 (notes 2.6, from memory)"),
+        "torsion": ParamRange("t/r", 0.25, 4.0, "single coefficient range (notes 2.6, from memory)"),
+    }
+    shoulder_band = {"tension": 0.05, "bending": 0.07, "torsion": 0.05}
+    for load in LOADS:
+        fits.append(ChartFit(
+            key=f"shaft-shoulder/{load}/cubic-sqrt-fit",
+            family="shaft_shoulder", load=load, basis="net", nominal=_SHAFT_NOMINAL[load],
+            parameters=("D", "d", "r"),
+            ranges=(shoulder_ranges[load],),
+            band=shoulder_band[load],
+            confidence="moderate",
+            source=("W. D. Pilkey & D. F. Pilkey (2008), Peterson's Stress Concentration Factors 3rd ed., stepped "
+                    f"round bar with a shoulder fillet in {load}; cubic in u = 2t/D, t = (D-d)/2, coefficients in "
+                    "sqrt(t/r) and t/r (from memory; Roark's Table 17.1 has closely similar sets)"),
+            from_memory=True,
+            note=("within 1-3 % (tension, torsion) and 2-7 % (bending) of independently recalled power-law fits "
+                  "(R. L. Norton, Machine Design, Appendix C, from memory) at D/d = 1.1-2; the band is our own "
+                  "reading of that agreement. Classical stepped-shaft charts are suspect for sharp fillets "
+                  "(S. M. Tipton, J. R. Sorem & R. D. Rolovic, J. Mech. Design 118 (1996) 321-327, from memory)."),
+            formula=lambda d, load=load: shaft_shoulder_kt(load, (d["D"] - d["d"]) / 2 / d["r"],
+                                                           (d["D"] - d["d"]) / d["D"]),
+            ratio_fn=_ratios_shaft,
+            check_fn=_check_shaft,
+        ))
+    nu_note = f"Poisson's ratio {GROOVE_NU} (tension and bending depend on it; torsion does not)"
+    for load in LOADS:
+        fits.append(ChartFit(
+            key=f"shaft-groove/{load}/deep-hyperbolic-limit",
+            family="shaft_groove", load=load, basis="net", nominal=_SHAFT_NOMINAL[load],
+            parameters=("D", "d", "r"),
+            ranges=(ParamRange("2t/D", 0.7, 1.0, "deep grooves only: the coverage table of the verification notes "
+                               "says to use Neuber's deep-notch values for U-notches with 2t/D >~ 0.7 (origin of "
+                               "the limit not recorded)", hi_inclusive=False),),
+            band=0.10,
+            confidence="moderate",
+            source=("H. Neuber (1958), Kerbspannungslehre 2nd ed. (Theory of Notch Stresses), deep hyperbolic "
+                    "external groove in a round bar, neck radius a = d/2, root radius r: tension and bending "
+                    "formulas from memory, torsion re-derived (fekt.exact; FE-confirmed within 0.1 % in "
+                    "tests/test_shaft_neuber.py)"),
+            from_memory=True,
+            note=("exact for hyperbolic flanks in an infinitely deep groove; for a U-groove (parallel flanks) it "
+                  f"is the deep limit only, so the band is our own choice. {nu_note}."),
+            formula=lambda d, load=load: groove_deep_kt(load, d["d"], d["r"]),
+            ratio_fn=_ratios_shaft,
+            check_fn=_check_shaft,
+        ))
+    for load in LOADS:
+        torsion = load == "torsion"
+        fits.append(ChartFit(
+            key=f"shaft-groove/{load}/shallow-limit",
+            family="shaft_groove", load=load, basis="gross", nominal=_SHAFT_NOMINAL_GROSS[load],
+            parameters=("D", "d", "r"),
+            ranges=((ParamRange("t/r", 0.5, 2.0, "our own choice: exact for a semicircular groove (t/r = 1), "
+                                "approximate for other U-grooves") if torsion else
+                     ParamRange("t/r", 1.0, 361.0, "chart range of the semi-infinite U-notch (Pilkey & Pilkey "
+                                "2008, from memory)")),
+                    ParamRange("2t/D", 0.0, 0.02, "our own choice of 'shallow': the limit holds as 2t/D -> 0")),
+            band=0.05,
+            confidence="moderate",
+            source=("antiplane elliptical notch Kts = 1 + sqrt(t/r), exactly 2 for a semicircular groove (derived "
+                    "from antiplane ellipse theory; notes 2.7, from memory)" if torsion else
+                    "U-notch in the edge of a semi-infinite plate, Kt = 0.855 + 2.21 sqrt(t/r) (W. D. Pilkey & "
+                    "D. F. Pilkey (2008), Peterson's Stress Concentration Factors 3rd ed., from memory); a shallow "
+                    "groove is locally a plane-strain edge notch (notes 2.7)"),
+            from_memory=True,
+            note=("the limit as the groove becomes shallow (2t/D -> 0), on the gross (unnotched) surface stress; "
+                  "the 2t/D limit and the band are our own choices"),
+            formula=lambda d, load=load: groove_shallow_kt(load, (d["D"] - d["d"]) / 2, d["r"]),
+            ratio_fn=_ratios_shaft,
+            check_fn=_check_shaft,
+        ))
+    for load in LOADS:
+        fits.append(ChartFit(
+            key=f"shaft-groove/{load}/shallow-deep-combination",
+            family="shaft_groove", load=load, basis="net", nominal=_SHAFT_NOMINAL[load],
+            parameters=("D", "d", "r"),
+            ranges=(ParamRange("t/r", 1.0, 50.0, "lower limit: the shallow U-notch value is stated for t/r >= 1; "
+                               "upper limit our own choice"),
+                    ParamRange("2t/D", 0.02, 0.9, "our own choice: between the shallow and the deep limit")),
+            band=0.15,
+            confidence="low",
+            source=("H. Neuber (1958), Theory of Notch Stresses: (Kt - 1) = (Kts - 1)(Ktd - 1) / sqrt((Kts - 1)^2 "
+                    "+ (Ktd - 1)^2) with the shallow limit Kts and the deep limit Ktd of this family (rule from "
+                    "memory)"),
+            from_memory=True,
+            note=("an interpolation rule, reported to be up to about 7 % non-conservative (body-force study, notes "
+                  f"2.7); its limits are themselves approximations for U-grooves; band our own choice. {nu_note}."),
+            formula=lambda d, load=load: groove_combined_kt(load, d["D"], d["d"], d["r"]),
+            ratio_fn=_ratios_shaft,
+            check_fn=_check_shaft,
+        ))
+    return tuple(fits)
 
 
 @dataclass(frozen=True)
@@ -827,5 +1034,10 @@ __all__ = [
     "pick_set",
     "primary_fit",
     "semi_infinite_u_kt",
+    "shaft_shoulder_kt",
+    "groove_deep_kt",
+    "groove_shallow_kt",
+    "groove_combined_kt",
+    "shallow_deep_combination",
     "shoulder_tension_roark_kt",
 ]

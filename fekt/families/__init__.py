@@ -11,7 +11,8 @@ from types import MappingProxyType
 
 from ..case.schema import PartSpec
 from ..errors import GeometryError
-from . import elliptical_hole, opposite_u_notches, shoulder_fillet, single_u_notch, strip_hole
+from . import (elliptical_hole, opposite_u_notches, shaft_groove, shaft_shoulder, shoulder_fillet, single_u_notch,
+               strip_hole)
 from .base import ENDS, Family, GridPoint, Outline, need
 
 REGISTRY: MappingProxyType[str, Family] = MappingProxyType({f.name: f for f in (
@@ -20,6 +21,8 @@ REGISTRY: MappingProxyType[str, Family] = MappingProxyType({f.name: f for f in (
     single_u_notch.FAMILY,
     shoulder_fillet.FAMILY,
     elliptical_hole.FAMILY,
+    shaft_shoulder.FAMILY,
+    shaft_groove.FAMILY,
 )})
 
 

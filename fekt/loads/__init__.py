@@ -8,11 +8,12 @@ from __future__ import annotations
 
 from types import MappingProxyType
 
-from . import ends
+from . import ends, shaft_ends
 from .base import Applied, Component, LoadedEnd, Traction
 
 REGISTRY = MappingProxyType({m.KIND: m for m in (
     ends,
+    shaft_ends,
 )})
 
 __all__ = ["REGISTRY", "Applied", "Component", "LoadedEnd", "Traction"]

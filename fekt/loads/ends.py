@@ -31,6 +31,8 @@ from .base import Applied, Component, LoadedEnd, Traction
 
 KIND = "ends"
 KEYS = ("type", "ends", "force", "stress", "moment")
+#: the analysis models this load type applies to (in-plane forces and moments of a plate)
+MODELS = ("plane_stress", "plane_strain")
 
 
 @dataclass(frozen=True)
@@ -107,6 +109,10 @@ def _end(part: PartGeometry, name: str, item: str):
 
 
 def apply(spec: EndsSpec, part: PartGeometry, model: Model, thickness: float) -> Applied:
+    if model.name not in MODELS:
+        raise GeometryError(f"load type '{KIND}' (in-plane force and moment of a plate) does not apply to model "
+                            f"'{model.name}'", item="load.type", hint=f"model '{model.name}' takes type = "
+                            f"'{model.default_load}'")
     if spec.ends[0] == spec.ends[1]:
         raise GeometryError("the two loaded ends must be different edges", item="load.ends")
     r1 = _end(part, spec.ends[0], "load.ends[0]")

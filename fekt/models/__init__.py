@@ -8,12 +8,13 @@ from __future__ import annotations
 
 from types import MappingProxyType
 
-from . import plane
+from . import axisymmetric, plane
 from .base import Model, Resultants, SectionProps, Stress
 
 REGISTRY: MappingProxyType[str, Model] = MappingProxyType({m.name: m for m in (
     plane.PLANE_STRESS,
     plane.PLANE_STRAIN,
+    axisymmetric.AXISYMMETRIC,
 )})
 
 __all__ = ["REGISTRY", "Model", "Resultants", "SectionProps", "Stress"]

@@ -143,9 +143,23 @@ class Model:
     coordinates: tuple[str, str] = ("x", "y")
     default_load: str = "ends"
     element_label: str = "6-node curved triangle (P2)"
+    #: whether a case file may give a thickness (a plate has one; a solid of revolution has none)
+    has_thickness: bool = True
+    #: nominal shear stress of resultants at a point of a section, (resultants, props, y) -> tau; None
+    #: where the model carries no torque (plane models)
+    shear_nominal: Callable[[Resultants, SectionProps, float], float] | None = None
+    #: model-specific rules for the case's part description (a PartSpec; e.g. a shaft's outline must lie
+    #: above its axis), raising GeometryError; called before the part is built; None where the model
+    #: takes any valid planar part
+    check_part: Callable[[Any], None] | None = None
 
     def operator(self, name: str | None = None) -> Operator:
         return self.operators[name or self.default_operator]
+
+    def validate(self, part: Any) -> None:
+        """Apply the model's own rules to a part description (:attr:`check_part`); nothing when it has none."""
+        if self.check_part is not None:
+            self.check_part(part)
 
 
 @dataclass(frozen=True)

@@ -274,8 +274,11 @@ def peak_gradient(sol: Solution, pmesh: PartMesh, part: PartGeometry, samples: B
         return PeakGradient(None, reason="singular corner: the elastic stress is unbounded there, so it has no "
                                          "gradient (and no Kf)")
     radius = root_radius(part, samples, index)
-    w = sample_window(sol, pmesh, part, samples, index, element_size=element_size, ligament=ligament,
-                      measure=measure, factors=factors, boundary=boundary)
+    try:
+        w = sample_window(sol, pmesh, part, samples, index, element_size=element_size, ligament=ligament,
+                          measure=measure, factors=factors, boundary=boundary)
+    except ValueError as exc:  # e.g. components of different circumferential harmonics (a shaft)
+        return PeakGradient(None, radius=radius, reason=f"no gradient: {exc}")
     if isinstance(w, str):
         return PeakGradient(None, radius=radius, reason=w)
     try:

@@ -32,16 +32,19 @@ SOLVER_NAME = "SuperLU (MMD_AT_PLUS_A, symmetric mode)"
 
 @dataclass(frozen=True)
 class OperatorSystem:
-    """One operator's basis and the degrees of freedom held at zero."""
+    """One operator's basis and the degrees of freedom held at zero: ``restrained`` all of them, ``rigid``
+    those of the rigid-body restraints (whose reactions must vanish; the model's fixed conditions, such
+    as a shaft's axis conditions, carry a discretisation-size residual instead)."""
 
     name: str
     basis: Basis
     restrained: np.ndarray
+    rigid: np.ndarray | None = None
 
 
 @dataclass(frozen=True)
 class ComponentField:
-    """The solved displacement of one load component; ``reactions`` at the restrained dofs and
+    """The solved displacement of one load component; ``reactions`` at the rigid-body restraints and
     ``load_norm`` (sum of |nodal load|) for the self-equilibrium check."""
 
     component: Component
@@ -106,8 +109,9 @@ def solve(pmesh: PartMesh, model: Model, E: float, nu: float, components: Sequen
         op = model.operator(comp.operator)
         if op.name not in systems:
             basis = Basis(mesh, op.element(mesh), intorder=op.intorder, mapping=pmesh.mapping)
-            D = np.union1d(op.fixed_dofs(basis), op.rigid_restraints(basis)).astype(np.int64)
-            systems[op.name] = OperatorSystem(op.name, basis, D)
+            rigid = np.asarray(op.rigid_restraints(basis), dtype=np.int64)
+            D = np.union1d(op.fixed_dofs(basis), rigid).astype(np.int64)
+            systems[op.name] = OperatorSystem(op.name, basis, D, rigid)
             matrices[op.name] = op.stiffness(basis, E, nu)
         basis = systems[op.name].basis
         f = np.zeros(basis.N)
@@ -128,7 +132,8 @@ def solve(pmesh: PartMesh, model: Model, E: float, nu: float, components: Sequen
         for k, (comp, f) in enumerate(items):
             u = np.zeros(K.shape[0])
             u[I] = X[:, k]
-            fields.append(ComponentField(comp, u, (K @ u - f)[D], float(np.abs(f).sum())))
+            R = systems[name].rigid if systems[name].rigid is not None else D
+            fields.append(ComponentField(comp, u, (K @ u - f)[R], float(np.abs(f).sum())))
     t2 = time.perf_counter()
     order = {c.name: i for i, c in enumerate(components)}
     fields.sort(key=lambda fl: order[fl.component.name])
