@@ -21,6 +21,7 @@ from .mesh.build import PartMesh, mesh_part
 from .models import REGISTRY as MODELS
 from .post.evaluate import evaluate_peaks
 from .post.fields import BoundarySamples, boundary_samples
+from .post.gradient import with_gradients
 from .records import (ComponentFacts, ContactRecord, EndFacts, LoadCaseRecord, LoadFacts, MeshFacts, Provenance,
                       Result, Timings, UnitsRecord)
 from .solver.cases import solve_cases
@@ -132,6 +133,8 @@ def run(case: Case, *, equilibrium: EquilibriumMode = EquilibriumMode.FAIL) -> S
             found.append(evaluate_peaks(samples, part, pmesh, sol, cs.applied, case.part.thickness,
                                         equilibrium=equilibrium, measure=measure, factors=cs.factors,
                                         stated=stated))
+            found[-1] = dataclasses.replace(found[-1], peaks=with_gradients(
+                found[-1].peaks, samples, sol, pmesh, part, cs.applied.axis, measure=measure, factors=cs.factors))
         except SolveError as exc:
             if not pmesh.warnings:
                 raise

@@ -23,6 +23,7 @@ STUDY_SCHEMA = "fekt.study/2"
 SWEEP_SCHEMA = "fekt.sweep/2"
 TARGET_SCHEMA = "fekt.target/2"
 CHARTS_SCHEMA = "fekt.charts/2"
+ASSESSMENT_SCHEMA = "fekt.assessment/1"
 
 
 @dataclass(frozen=True)
@@ -118,6 +119,30 @@ class ComponentKt:
     kt_net: float | None
     sigma_nom_gross: float | None
     kt_gross: float | None
+    load: str = ""  # the case file's load it belongs to
+
+
+@dataclass(frozen=True)
+class PeakGradient:
+    """The relative stress gradient at a peak from the solved field (:mod:`fekt.post.gradient`).
+
+    ``chi`` = -(d sigma/dn)/sigma at the peak, n the inward normal (1/length; positive where the stress
+    magnitude falls inward); ``surface`` the fitted stress at the peak (the measure of the peaks);
+    ``depth`` and ``half_width`` the sampled window (length), ``radius`` the boundary's radius of curvature
+    at the peak where it is concave (a notch root, a hole, a fillet; inf on a straight or convex edge), ``coordinate`` how depth entered the fit, ``degree`` the fit's degree in depth,
+    ``points`` the stress samples used, ``error_estimate`` |chi - chi of a fit one degree higher| (1/length).
+    ``chi`` is None when there is no gradient, and ``reason`` says why (a singular corner, a coarse mesh)."""
+
+    chi: float | None
+    surface: float | None = None
+    depth: float | None = None
+    half_width: float | None = None
+    radius: float | None = None
+    coordinate: str = ""
+    degree: int = 0
+    points: int = 0
+    error_estimate: float | None = None
+    reason: str | None = None
 
 
 @dataclass(frozen=True)
@@ -130,7 +155,8 @@ class StressPeak:
     point. ``gross_section`` is None where no gross section applies (``gross_rule`` says why).
     ``scatter`` is the roughness of the boundary stress there (stress units, a floor for the band);
     ``band`` and ``chart`` are None when the estimate or the chart check was not asked for (or has
-    nothing to say: see ``chart``'s :class:`NoChart`)."""
+    nothing to say: see ``chart``'s :class:`NoChart`). ``gradient``: the relative stress gradient at the
+    peak from the FE field (None when it was not computed)."""
 
     rank: int
     x: float
@@ -168,6 +194,7 @@ class StressPeak:
     #: how the nominal stress was found when not by net-section statics (stated in the case, a remote
     #: stress), or why there is none (supports on both sides of the section); empty: statics
     nominal_source: str = ""
+    gradient: PeakGradient | None = None
 
     @property
     def compressive(self) -> bool:
@@ -347,6 +374,202 @@ class Result:
         raise KeyError(rank)
 
 
+# --- the strength and fatigue assessment (fekt.assess.assessment) --------------------------------------
+
+@dataclass(frozen=True)
+class EstimateRecord:
+    """A material value estimated from another by a published rule. ``value`` is in the case's units of
+    ``dimension`` (``stress`` or ``length``); ``inputs`` says what it was estimated from, in the units the
+    rule is published in."""
+
+    quantity: str
+    value: float
+    dimension: str
+    rule: str
+    source: str
+    from_memory: bool
+    inputs: str = ""
+    notes: tuple[str, ...] = ()
+
+
+@dataclass(frozen=True)
+class StrengthFacts:
+    """The strengths and material constants the case states (None where not given)."""
+
+    yield_strength: float | None
+    ultimate_strength: float | None
+    fatigue_strength: float | None
+    fatigue_basis: str
+    peterson_a: float | None
+    neuber_rho: float | None
+    siebel_sg: float | None
+    group: str | None
+
+
+@dataclass(frozen=True)
+class GradientCheck:
+    """The FE relative stress gradient at a peak beside the chart approximation from its root radius.
+    ``difference_pct`` = 100 (chart / FE - 1); ``reason`` says why one of them is missing."""
+
+    fe: float | None
+    fe_error: float | None
+    chart: float | None
+    chart_formula: str = ""
+    chart_source: str = ""
+    difference_pct: float | None = None
+    notes: tuple[str, ...] = ()
+    reason: str | None = None
+
+
+@dataclass(frozen=True)
+class NotchFactorRecord:
+    """Kf of one peak by one method: ``formula`` names what was evaluated; ``constant``/``constant_value``
+    the material length used (``constant_origin`` ``given`` or ``estimated``); ``support_factor`` n and
+    ``gradient`` for the support-factor methods. ``kf`` is None with ``reason`` when the method gives none."""
+
+    method: str
+    kf: float | None
+    q: float | None
+    formula: str
+    constant: str = ""
+    constant_value: float | None = None
+    constant_origin: str = ""
+    support_factor: float | None = None
+    relative_gradient: float | None = None
+    notes: tuple[str, ...] = ()
+    reason: str | None = None
+
+
+@dataclass(frozen=True)
+class StaticRecord:
+    """A stress against the yield strength: ``factor`` = Sy / |stress| (None with ``reason``)."""
+
+    kind: str
+    stress: float
+    yield_strength: float
+    factor: float | None
+    note: str | None = None
+    reason: str | None = None
+
+
+@dataclass(frozen=True)
+class CriterionRecord:
+    """One mean-stress criterion's fatigue safety factor on the local cycle."""
+
+    criterion: str
+    factor: float | None
+    compressive_mean: bool = False
+    reason: str | None = None
+
+
+@dataclass(frozen=True)
+class FatigueRecord:
+    """The fatigue check of one peak.
+
+    The cycle: the net nominal stress and the elastic peak stress at its two ends (stated factors on the
+    load, or load cases); the local cycle = ``local_ratio`` x the elastic peak stresses, with
+    ``local_ratio`` = Kf/Kt (= Kf x the nominal stress), Kf by ``notch_method``. Safety factors by each
+    criterion, the governing one, and first-cycle yield (Langer line) of the local cycle."""
+
+    notch_method: str
+    kf: float | None
+    local_ratio: float
+    nominal_max: float
+    nominal_min: float
+    elastic_max: float
+    elastic_min: float
+    local_max: float
+    local_min: float
+    local_mean: float
+    local_amplitude: float
+    fatigue_strength: float
+    criteria: tuple[CriterionRecord, ...]
+    governing: str | None
+    governing_factor: float | None
+    first_cycle_yield: float | None
+    notes: tuple[str, ...] = ()
+
+
+@dataclass(frozen=True)
+class KfSpread:
+    """The lowest and highest Kf of a peak among the methods that give one; ``spread_pct`` = 100 (high/low - 1)."""
+
+    low_method: str
+    low: float
+    high_method: str
+    high: float
+    spread_pct: float
+
+
+@dataclass(frozen=True)
+class PeakAssessment:
+    """Everything the assessment says about one stress peak (rank, place and Kt as in the result).
+    ``radius``: the root radius the notch-factor methods used (the boundary's radius of curvature at the
+    peak, else the feature's smallest radius)."""
+
+    rank: int
+    feature: str
+    feature_kind: FeatureKind
+    singular: bool
+    x: float
+    y: float
+    radius: float
+    kt: float | None
+    peak: float
+    sigma_nom_net: float
+    loading: str
+    shape: str | None
+    relative_gradient: GradientCheck
+    notch_factors: tuple[NotchFactorRecord, ...]
+    kf_spread: KfSpread | None
+    static_peak: StaticRecord
+    static_net: StaticRecord
+    fatigue: FatigueRecord | None
+    reason: str | None = None
+
+
+@dataclass(frozen=True)
+class Governing:
+    """The peak with the smallest safety factor of one kind of check, and the check (criterion) itself."""
+
+    rank: int
+    feature: str
+    check: str
+    factor: float
+
+
+@dataclass(frozen=True)
+class Assessment:
+    """The strength and fatigue assessment of a solved case (``fekt assess``); :func:`to_jsonable` gives
+    the JSON content. ``cycle`` describes where the fatigue cycle came from (None: static checks only)."""
+
+    case_name: str
+    source: str
+    demo: bool
+    units: UnitsRecord
+    strengths: StrengthFacts
+    estimates: tuple[EstimateRecord, ...]
+    cycle: str | None
+    notch_factor: str
+    criteria: tuple[str, ...]
+    peaks: tuple[PeakAssessment, ...]
+    static_peak_governing: Governing | None
+    static_net_governing: Governing | None
+    fatigue_governing: Governing | None
+    notes: tuple[str, ...]
+    cautions: tuple[str, ...]
+    schema: str = field(default=ASSESSMENT_SCHEMA)
+
+    def to_dict(self) -> dict:
+        return to_jsonable(self)
+
+    def peak(self, rank: int) -> PeakAssessment:
+        for p in self.peaks:
+            if p.rank == rank:
+                return p
+        raise KeyError(rank)
+
+
 def to_jsonable(x):
     """Plain JSON data from records, enums, numpy values and containers (non-finite numbers become null;
     dataclasses become objects with their field names, in order)."""
@@ -371,6 +594,8 @@ def to_jsonable(x):
 
 
 __all__ = [
+    "Assessment", "CriterionRecord", "EstimateRecord", "FatigueRecord", "Governing", "GradientCheck", "KfSpread",
+    "NotchFactorRecord", "PeakAssessment", "PeakGradient", "StaticRecord", "StrengthFacts", "ASSESSMENT_SCHEMA",
     "Band", "ChartCheck", "ComponentFacts", "ComponentKt", "Compressive", "EndFacts", "EstimateFacts", "FamilyCheck",
     "LoadFacts", "MeshFacts", "NoChart", "Provenance", "Result", "SectionRecord", "StressPeak", "Timings",
     "UnitsRecord", "to_jsonable", "RESULT_SCHEMA", "STUDY_SCHEMA", "SWEEP_SCHEMA", "TARGET_SCHEMA", "CHARTS_SCHEMA",

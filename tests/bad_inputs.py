@@ -55,4 +55,8 @@ BAD_CASES = [
     ("loaded ends not parallel", mutate("ends = [\"left\", \"right\"]", "ends = [\"left\", \"top\"]"), "not parallel"),
     ("unknown unit", "[units]\nlength = \"furlong\"\n" + GOOD, "furlong"),
     ("unknown output unit", "[units]\noutput = \"bar,mm\"\n" + GOOD, "units.output: unknown unit 'bar'"),
+    ("yield strength above the ultimate strength", GOOD + "[material]\nyield_strength = 700\nultimate_strength = 600\n",
+     "material.yield_strength"),
+    ("fatigue cycle given two ways", GOOD + "[cycle]\nmax_factor = 1\nmin_factor = 0\nmean_factor = 0.5\n",
+     "cycle.mean_factor"),
 ]

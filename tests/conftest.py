@@ -69,3 +69,34 @@ def kirsch_level(epr: float, h: float):
 @pytest.fixture(scope="session")
 def kirsch_default():
     return kirsch_solution()
+
+
+def asymmetric_strip(sign: float = 1.0, force: float = 1000.0, moment: float = 0.0, extra: str = "",
+                     elements_per_radius: float = 8) -> str:
+    """Case text: a strip 320 x 40 with one edge U-notch (depth 6, r = 2) and an off-centre hole (d = 8);
+    ``sign`` = -1 draws it mirrored (y -> -y, so the outline runs clockwise). ``extra``: more TOML."""
+    pts = [(0, 0, "bottom"), (320, 0, "right"), (320, 40, "top"), (0, 40, "left")]
+    outline = ", ".join(f'{{ x = {x}, y = {sign * y}, edge = "{e}" }}' for x, y, e in pts)
+    return f"""
+[part]
+thickness = 5
+outline = [ {outline} ]
+[[part.cutouts]]
+name = "hole"
+shape = "circle"
+center = [140, {sign * 24}]
+diameter = 8
+[[part.notches]]
+name = "notch"
+edge = "top"
+position = 140
+depth = 6
+root_radius = 2
+[load]
+ends = ["left", "right"]
+force = {force}
+moment = {moment}
+[mesh]
+elements_per_radius = {elements_per_radius}
+{extra}
+"""

@@ -6,7 +6,10 @@
   Siebel-Stieler support factors, Kf = Kt / n;
 * :mod:`.fatigue`: mean and alternating stress of a cycle, fatigue safety factors (modified Goodman,
   Gerber, ASME elliptic, Soderberg) and first-cycle yield (Langer);
-* :mod:`.static`: peak and net-section stress against yield.
+* :mod:`.static`: peak and net-section stress against yield;
+* :mod:`.assessment`: every peak of a solved result through them (static checks, Kf side by side, the
+  local cycle and its safety factors, the governing peak); import it explicitly
+  (``from fekt.assess.assessment import assess``).
 
 Notch-factor methods are empirical: check against the applicable design code and test data.
 """

@@ -21,6 +21,7 @@ from typing import TypeVar
 from fekt.case import fields as F
 from fekt.case.expr import resolve_parameters
 from fekt.case.fields import Catalogue, LoadContext
+from fekt.case import strengths as S
 from fekt.case.output_units import OutputUnits, parse_output_units
 from fekt.case.schema import (
     FORCE_UNITS,
@@ -28,6 +29,8 @@ from fekt.case.schema import (
     Case,
     CutoutSpec,
     LoadCaseSpec,
+    STRENGTH_KEYS,
+    AssessmentSpec,
     Material,
     MeshSpec,
     NominalSpec,
@@ -46,7 +49,7 @@ _T = TypeVar("_T")
 BULGES = ("out", "in")
 
 _TOP_KEYS = ("case", "units", "parameters", "part", "material", "load", "loads", "supports", "load_cases", "nominal",
-             "mesh")
+             "mesh", "cycle", "assessment")
 _LOAD_CASE_KEYS = ("name", "factors")
 _NOMINAL_KEYS = ("axis", "stress", "feature")
 _CASE_KEYS = ("name", "description", "demo", "measure")
@@ -77,7 +80,7 @@ _SHAPE_REQUIRED: Mapping[str, tuple[str, ...]] = {
     "chain": ("vertices",),
 }
 SHAPES = tuple(_SHAPE_KEYS)
-_MATERIAL_KEYS = ("E", "nu")
+_MATERIAL_KEYS = ("E", "nu", *STRENGTH_KEYS)
 _MESH_KEYS = ("elements_per_radius", "size", "growth", "max_elements")
 
 
@@ -156,9 +159,18 @@ def case_from_dict(data: dict, source: str, overrides: Mapping[str, float] | Non
     load_cases = _load_cases(root.get("load_cases", []), loads, params)
     nominal = _nominal(root.get("nominal", {}), params, len(load_cases) if load_cases else 1)
     mesh = _mesh(root.get("mesh", {}), params)
+    cycle = S.cycle(root["cycle"], params) if "cycle" in root else None
+    if cycle is not None and cycle.form == "cases":
+        names = [lc.name for lc in load_cases]
+        for key, name in (("max_case", cycle.max_case), ("min_case", cycle.min_case)):
+            if name not in names:
+                raise CaseError(f"the case has no load case named '{name}'", item=f"cycle.{key}",
+                                hint=F.close_match(name, names) + f"load cases: {', '.join(names) or 'none'}")
+    assessment = S.assessment(root["assessment"]) if "assessment" in root else AssessmentSpec()
     return Case(name=name, part=part, loads=loads, material=material, mesh=mesh, units=units,
                 description=description, parameters=tuple(params.items()), source=source, demo=demo,
-                measure=measure, supports=supports, load_cases=load_cases, nominal=nominal)
+                measure=measure, supports=supports, load_cases=load_cases, nominal=nominal, cycle=cycle,
+                assessment=assessment)
 
 
 # --- [case] and [units] ------------------------------------------------------------------------------
@@ -451,7 +463,7 @@ def _material(raw: object, params: Mapping[str, float]) -> Material:
     # The isotropic elastic energy is positive definite only for -1 < nu < 0.5.
     if not -1.0 < nu < 0.5:
         raise CaseError(f"Poisson's ratio {nu:.6g} must lie strictly between -1 and 0.5", item="material.nu")
-    return Material(E=E, nu=nu)
+    return Material(E=E, nu=nu, **S.strengths(table, params))
 
 
 def _loads(root: Mapping[str, object], ctx: LoadContext, catalogue: Catalogue, model: str) -> tuple:

@@ -138,13 +138,80 @@ class PartSpec:
 
 # --- material, load, mesh -----------------------------------------------------------------------
 
+#: material groups a case may name (the groups of the FKM support factor; the values of
+#: fekt.assess.material.MaterialGroup)
+MATERIAL_GROUPS = ("steel", "stainless steel", "cast steel", "nodular cast iron", "malleable cast iron",
+                   "grey cast iron", "wrought aluminium", "cast aluminium")
+#: what a stated fatigue strength is: a polished unnotched specimen's, or corrected by the user
+FATIGUE_BASES = ("specimen", "corrected")
+#: the strength keys of [material] (all optional; only the assessment uses them)
+STRENGTH_KEYS = ("yield_strength", "ultimate_strength", "fatigue_strength", "fatigue_basis", "peterson_a",
+                 "neuber_rho", "siebel_sg", "group")
+
+
 @dataclass(frozen=True)
 class Material:
     """Isotropic linear elastic. Defaults are steel-like in MPa; in 2D Kt does not depend on them
-    (Michell's theorem, see the docs)."""
+    (Michell's theorem, see the docs).
+
+    Strengths for the assessment (all optional; stresses in the case's stress unit, lengths in its length
+    unit): ``yield_strength``, ``ultimate_strength``, ``fatigue_strength`` (fully reversed; of the kind
+    ``fatigue_basis`` names: ``specimen`` for a polished unnotched specimen, ``corrected`` when the user
+    has applied surface, size and other factors), the notch-sensitivity lengths ``peterson_a``,
+    ``neuber_rho`` (rho' itself) and ``siebel_sg``, and the material ``group`` (:data:`MATERIAL_GROUPS`)."""
 
     E: float = 210000.0
     nu: float = 0.3
+    yield_strength: float | None = None
+    ultimate_strength: float | None = None
+    fatigue_strength: float | None = None
+    fatigue_basis: str = "specimen"
+    peterson_a: float | None = None
+    neuber_rho: float | None = None
+    siebel_sg: float | None = None
+    group: str | None = None
+
+    @property
+    def strengths_given(self) -> tuple[str, ...]:
+        """The strength keys the case states (``fatigue_basis`` only when a fatigue strength is given)."""
+        return tuple(k for k in STRENGTH_KEYS if k != "fatigue_basis" and getattr(self, k) is not None)
+
+
+@dataclass(frozen=True)
+class CycleSpec:
+    """A fatigue cycle stated as factors on the case's load: the load times ``max_factor`` and times
+    ``min_factor`` are the two ends of the cycle (max_factor >= min_factor). ``form`` records how the file
+    gave it: ``extremes`` (max_factor, min_factor) or ``mean`` (mean_factor, alternating_factor)."""
+
+    max_factor: float
+    min_factor: float
+    form: str = "extremes"
+    #: the cycle between two named load cases instead (``form = "cases"``; the factors are then 1 and 1)
+    max_case: str | None = None
+    min_case: str | None = None
+
+    @property
+    def mean_factor(self) -> float:
+        return 0.5 * (self.max_factor + self.min_factor)
+
+    @property
+    def alternating_factor(self) -> float:
+        return 0.5 * (self.max_factor - self.min_factor)
+
+
+#: which fatigue notch factor sets the local cycle: the largest of the methods that give one, one method,
+#: or Kt itself (q = 1)
+NOTCH_FACTOR_CHOICES = ("largest", "peterson", "neuber", "heywood", "fkm", "siebel_stieler", "kt")
+#: the mean-stress criteria a case may ask for
+CRITERIA_CHOICES = ("goodman", "gerber", "asme_elliptic", "soderberg")
+
+
+@dataclass(frozen=True)
+class AssessmentSpec:
+    """Options of the strength and fatigue assessment (``[assessment]``)."""
+
+    notch_factor: str = "largest"
+    criteria: tuple[str, ...] = ("goodman", "gerber", "asme_elliptic")
 
 
 class LoadSpec(Protocol):
@@ -209,3 +276,5 @@ class Case:
     #: the boundary stress peaks are found by (fekt.kinds.Measure), or "auto": tangential, or principal
     #: when a load has a torque (whose tangential stress is zero); see fekt.pipeline.peak_measure
     measure: str = "auto"
+    cycle: CycleSpec | None = None  # a fatigue cycle as factors on the load (only the assessment uses it)
+    assessment: AssessmentSpec = field(default_factory=AssessmentSpec)

@@ -60,7 +60,7 @@ class _VersionAction(argparse.Action):
 
 
 def build_parser() -> argparse.ArgumentParser:
-    from . import charts_cmd, converge_cmd, show_cmd, solve_cmd, sweep_cmd
+    from . import assess_cmd, charts_cmd, converge_cmd, show_cmd, solve_cmd, sweep_cmd
 
     p = argparse.ArgumentParser(prog="fekt", description="Elastic stress concentration factors (Kt) of flat "
                                 "notched parts by finite elements.")
@@ -69,6 +69,7 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--debug", action="store_true", help="show tracebacks for errors")
     sub = p.add_subparsers(dest="command", required=True)
     solve_cmd.add_parser(sub)
+    assess_cmd.add_parser(sub)
     converge_cmd.add_parser(sub)
     charts_cmd.add_parser(sub)
     sweep_cmd.add_parser(sub)

@@ -60,6 +60,13 @@ def shown_result(result, ou: OutputUnits | None):
     return result if ou is None else convert_result(result, ou)
 
 
+def shown_assessment(assessment, ou: OutputUnits | None):
+    """The assessment as every printer shows it (stresses, lengths and gradients in the output units)."""
+    from ..report.units import convert_assessment
+
+    return assessment if ou is None else convert_assessment(assessment, ou)
+
+
 def case_text(path: str) -> str | None:
     try:
         with open(path, encoding="utf-8-sig") as fh:

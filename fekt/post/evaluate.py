@@ -160,8 +160,8 @@ def evaluate_peaks(samples: BoundarySamples, part: PartGeometry, pmesh: PartMesh
                                      section_resultants([c], {c.name: 1.0}, secs.gross, gside, mirrored), y_gross, tx)
                   if gside is not None else None)
             per.append(ComponentKt(c.load if c.contact is not None else c.name, c.quantity, cstress, cn.sigma,
-                                   kt(cstress, cn),
-                                   cg.sigma if cg else None, kt(cstress, cg) if cg else None))
+                                   kt(cstress, cn), cg.sigma if cg else None, kt(cstress, cg) if cg else None,
+                                   load=c.load))
         f = p.feature
         spots.append(dict(
             x=float(xy[0]), y=float(xy[1]), feature=name, feature_kind=f.kind if f else FeatureKind.EDGE,

@@ -256,13 +256,14 @@ def _timing_rows(r: Result) -> list[tuple[str, str]]:
 
 
 def solve_document(solved, *, case_text: str | None = None, result: Result | None = None,
-                   figure: bytes | None = None) -> H.Document:
+                   figure: bytes | None = None, assessment=None) -> H.Document:
     """The review document of one solve.
 
     ``solved``: the :class:`fekt.pipeline.Solved` state (for the figure, the case's parameters and
     description); ``result``: the result as shown (e.g. converted to other units; default
     ``solved.result``); ``case_text``: the case file's text; ``figure``: PNG bytes of the part/stress figure
-    (default: drawn now with :func:`fekt.report.plots.write_figure`, in the case's units)."""
+    (default: drawn now with :func:`fekt.report.plots.write_figure`, in the case's units); ``assessment``: the
+    strength and fatigue assessment as shown (:class:`fekt.records.Assessment`), added as its own section."""
     from .plots import write_figure
 
     r = result if result is not None else solved.result
@@ -300,6 +301,10 @@ def solve_document(solved, *, case_text: str | None = None, result: Result | Non
     blocks.append(_section_table(r))
     blocks += _band_blocks(r)
     blocks += _chart_blocks(r)
+    if assessment is not None:
+        from .assessment import assessment_blocks
+
+        blocks += assessment_blocks(assessment)
     blocks.append(H.WarningList(tuple(r.warnings)))
     if r.notes:
         blocks.append(H.Heading("Notes", anchor="notes"))

@@ -129,7 +129,6 @@ def _all_peaks(r: Result):
 
 
 def peak_row(r: Result, h, names: list[str]) -> list[str]:
-    lu = r.units.length
     feat = h.feature + (" [SINGULAR]" if h.singular else "")
     kt_net = num(h.kt_net) if not h.singular else num(h.kt_net) + "*"
     rad = "sharp" if h.radius == 0 else ("-" if not math.isfinite(h.radius) else num(h.radius))

@@ -19,7 +19,8 @@ re-exported here.
 Whole results: :func:`convert_result` gives a :class:`fekt.records.Result` with every stress, length,
 area, second moment, force and moment in the output units (forces in :func:`force_unit`), so every
 printer (text, JSON, HTML) shows them; :func:`convert_study` and :func:`convert_points` do the same for
-refinement studies and sweep points. Kt values never change. Every field of every record is listed with
+refinement studies and sweep points, :func:`convert_assessment` for the strength and fatigue assessment (gradients in
+1/length). Kt values never change. Every field of every record is listed with
 its dimension in ``_RECORD_FIELDS``; a field missing from the list stops the conversion with a message
 rather than being shown in the case's units.
 
@@ -165,9 +166,11 @@ _RECORD_FIELDS: dict[str, dict[str, str]] = {
                    "M": "M", "sigma_nom_net": "S", "kt_net": "-", "gross_section": "R", "gross_rule": "-",
                    "sigma_nom_gross": "S", "kt_gross": "-", "equilibrium_error": "-", "scatter": "S",
                    "components": "R", "band": "R", "chart": "R", "component_charts": "R", "T": "M",
-                   "theta": "-", "introduction": "-", "nominal_source": "-"},
+                   "theta": "-", "introduction": "-", "nominal_source": "-", "gradient": "R"},
+    "PeakGradient": {"chi": "1/L", "surface": "S", "depth": "L", "half_width": "L", "radius": "L", "coordinate": "-",
+                     "degree": "-", "points": "-", "error_estimate": "1/L", "reason": "-"},
     "ComponentKt": {"name": "-", "quantity": "-", "stress": "S", "sigma_nom_net": "S", "kt_net": "-",
-                    "sigma_nom_gross": "S", "kt_gross": "-"},
+                    "sigma_nom_gross": "S", "kt_gross": "-", "load": "-"},
     "SectionRecord": {"s": "L", "width": "L", "area": "L2", "centroid": "L", "inertia": "L4", "intervals": "L",
                       "polar": "L4"},
     "Compressive": {"sigma": "S", "x": "L", "y": "L"},
@@ -207,7 +210,35 @@ _RECORD_FIELDS: dict[str, dict[str, str]] = {
                      "keeps_below": "-", "kt": "-", "kt_band": "-", "value_band": "-", "evaluations": "-",
                      "history": "R", "stop_reason": "-", "peak": "S"},
     "SearchPoint": {"value": "-", "status": "-", "kt": "-", "band": "-", "message": "-", "peak": "S"},
+    # the strength and fatigue assessment (fekt.assess.assessment); Kf, q, support factors and safety factors
+    # are ratios; an estimate's value has the dimension its record names (D)
+    "Assessment": {"case_name": "-", "source": "-", "demo": "-", "units": "-", "strengths": "R", "estimates": "R",
+                   "cycle": "-", "notch_factor": "-", "criteria": "-", "peaks": "R", "static_peak_governing": "R",
+                   "static_net_governing": "R", "fatigue_governing": "R", "notes": "-", "cautions": "-", "schema": "-"},
+    "StrengthFacts": {"yield_strength": "S", "ultimate_strength": "S", "fatigue_strength": "S", "fatigue_basis": "-",
+                      "peterson_a": "L", "neuber_rho": "L", "siebel_sg": "L", "group": "-"},
+    "EstimateRecord": {"quantity": "-", "value": "D", "dimension": "-", "rule": "-", "source": "-", "from_memory": "-",
+                       "inputs": "-", "notes": "-"},
+    "PeakAssessment": {"rank": "-", "feature": "-", "feature_kind": "-", "singular": "-", "x": "L", "y": "L",
+                       "radius": "L", "kt": "-", "peak": "S", "sigma_nom_net": "S", "loading": "-", "shape": "-",
+                       "relative_gradient": "R", "notch_factors": "R", "kf_spread": "R", "static_peak": "R",
+                       "static_net": "R", "fatigue": "R", "reason": "-"},
+    "KfSpread": {"low_method": "-", "low": "-", "high_method": "-", "high": "-", "spread_pct": "-"},
+    "GradientCheck": {"fe": "1/L", "fe_error": "1/L", "chart": "1/L", "chart_formula": "-", "chart_source": "-",
+                      "difference_pct": "-", "notes": "-", "reason": "-"},
+    "NotchFactorRecord": {"method": "-", "kf": "-", "q": "-", "formula": "-", "constant": "-", "constant_value": "L",
+                          "constant_origin": "-", "support_factor": "-", "relative_gradient": "1/L", "notes": "-",
+                          "reason": "-"},
+    "StaticRecord": {"kind": "-", "stress": "S", "yield_strength": "S", "factor": "-", "note": "-", "reason": "-"},
+    "FatigueRecord": {"notch_method": "-", "kf": "-", "local_ratio": "-", "nominal_max": "S", "nominal_min": "S",
+                      "elastic_max": "S", "elastic_min": "S", "local_max": "S", "local_min": "S", "local_mean": "S",
+                      "local_amplitude": "S", "fatigue_strength": "S", "criteria": "R", "governing": "-",
+                      "governing_factor": "-", "first_cycle_yield": "-", "notes": "-"},
+    "CriterionRecord": {"criterion": "-", "factor": "-", "compressive_mean": "-", "reason": "-"},
+    "Governing": {"rank": "-", "feature": "-", "check": "-", "factor": "-"},
 }
+#: the dimension of an estimated value, by the dimension its record names
+_ESTIMATE = {"stress": "S", "length": "L"}
 
 #: the force unit that goes with a pair of output units when stress x length^2 is exactly that force
 _FORCE_OF = {("Pa", "m"): "N", ("kPa", "m"): "kN", ("MPa", "m"): "MN", ("MPa", "mm"): "N", ("GPa", "mm"): "kN",
@@ -261,7 +292,8 @@ def record_units(length: str, force: str, stress: str, output: OutputUnits) -> R
     ff = _factor(_PINT[force], _PINT[out_force])
     fs = (_factor(_PINT[stress], _PINT[output.stress]) if stress in STRESS_UNITS
           else stress_factor(length, force, output.stress))
-    return RecordUnits(output, out_force, {"S": fs, "L": fl, "L2": fl * fl, "L4": fl ** 4, "F": ff, "M": ff * fl})
+    return RecordUnits(output, out_force, {"S": fs, "L": fl, "L2": fl * fl, "L4": fl ** 4, "F": ff, "M": ff * fl,
+                                           "1/L": 1.0 / fl})
 
 
 def _convert(record, ru: RecordUnits):
@@ -288,6 +320,11 @@ def _convert(record, ru: RecordUnits):
             if q is None:
                 raise TypeError(f"load component '{record.name}': cannot convert a {record.quantity!r} magnitude")
             changes[f.name] = ru.scale(value, q)
+        elif dim == "D":
+            d = _ESTIMATE.get(record.dimension)
+            if d is None:
+                raise TypeError(f"estimate '{record.quantity}': cannot convert a {record.dimension!r} value")
+            changes[f.name] = ru.scale(value, d)
         elif dim != "-":
             changes[f.name] = ru.scale(value, dim)
     return dataclasses.replace(record, **changes) if changes else record
@@ -323,6 +360,18 @@ def convert_result(result, output: OutputUnits):
     notes = tuple(n for n in result.notes if not n.startswith("Numbers are shown in "))
     return dataclasses.replace(converted, units=type(u)(output.length, ru.force, output.stress, ru.moment),
                                notes=notes + (units_note(u, ru),))
+
+
+def convert_assessment(assessment, output: OutputUnits):
+    """An assessment (:class:`fekt.records.Assessment`) with every stress, length and gradient (1/length) in
+    ``output``; Kt, Kf, q, support and safety factors unchanged. Its ``units`` record names the new units."""
+    u = assessment.units
+    ru = record_units(u.length, u.force, u.stress, output)
+    converted = _convert(assessment, ru)
+    if (u.length, u.force, u.stress) == (output.length, ru.force, output.stress):
+        return converted
+    return dataclasses.replace(converted, units=type(u)(output.length, ru.force, output.stress, ru.moment),
+                               notes=converted.notes + (units_note(u, ru),))
 
 
 def convert_study(study, length: str, force: str, stress: str, output: OutputUnits):
